@@ -1,0 +1,110 @@
+# sitereach: one Makefile, no configure step.
+#   make            build build/sitereach (installs missing Debian packages first)
+#   make demo       generate the invented demo district and run the main job on it
+#   make check      build and run every test (unit, CLI, cross-checks)
+#   make asan       the same tests under AddressSanitizer + UndefinedBehaviorSanitizer
+#   make bench      benchmarks (prints figures; never part of check)
+#   make install PREFIX=/usr/local
+# Set WERROR=1 (CI does) to turn warnings into errors.
+
+PKGS     := igraph gdal libcjson proj cairo
+CC       ?= cc
+BUILD    ?= build
+PREFIX   ?= /usr/local
+VERSION  := 0.1.0
+
+# Install what is missing before asking pkg-config (fresh machines).
+DEPS_OK := $(shell pkg-config --exists $(PKGS) 2>/dev/null && test -f /usr/include/glpk.h && echo yes)
+ifneq ($(DEPS_OK),yes)
+  $(info sitereach: some build dependencies are missing; running tools/install-deps.sh)
+  $(shell ./tools/install-deps.sh >&2)
+endif
+
+WARN     := -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes
+ifeq ($(WERROR),1)
+  WARN += -Werror
+endif
+OPT      ?= -O2 -g
+CFLAGS   += -std=c11 -D_POSIX_C_SOURCE=200809L -D_DEFAULT_SOURCE $(OPT) $(WARN) \
+            -Iinclude -Isrc -DSITEREACH_VERSION='"$(VERSION)"' \
+            $(shell pkg-config --cflags $(PKGS))
+LDLIBS   += $(shell pkg-config --libs $(PKGS)) -lglpk -lm -lpthread
+
+SAN      := -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=undefined
+
+LIB_SRC  := $(sort $(filter-out src/cmd/%,$(wildcard src/*/*.c)))
+CMD_SRC  := $(sort $(wildcard src/cmd/*.c))
+TEST_SRC := $(sort $(wildcard tests/test_*.c))
+TOOL_SRC := $(sort $(wildcard tools/*.c))
+
+LIB_OBJ  := $(LIB_SRC:%.c=$(BUILD)/%.o)
+CMD_OBJ  := $(CMD_SRC:%.c=$(BUILD)/%.o)
+TESTS    := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
+TOOLS    := $(TOOL_SRC:tools/%.c=$(BUILD)/tools/%)
+LIBA     := $(BUILD)/libsitereach.a
+BIN      := $(BUILD)/sitereach
+
+.PHONY: all demo check tests asan bench bench-orlib install clean deps
+.DELETE_ON_ERROR:
+
+all: $(BIN) $(TOOLS)
+
+deps:
+	./tools/install-deps.sh
+
+$(BUILD)/%.o: %.c
+	@mkdir -p $(dir $@)
+	$(CC) $(CFLAGS) -MMD -MP -c $< -o $@
+
+$(LIBA): $(LIB_OBJ)
+	@mkdir -p $(dir $@)
+	rm -f $@
+	ar rcs $@ $^
+
+$(BIN): $(CMD_OBJ) $(LIBA)
+	$(CC) $(CFLAGS) $(LDFLAGS) -o $@ $^ $(LDLIBS)
+
+$(BUILD)/tests/%: tests/%.c tests/check.h $(LIBA)
+	@mkdir -p $(dir $@)
+	$(CC) $(CFLAGS) -Itests $(LDFLAGS) -o $@ $< $(LIBA) $(LDLIBS)
+
+$(BUILD)/tools/%: tools/%.c $(LIBA)
+	@mkdir -p $(dir $@)
+	$(CC) $(CFLAGS) $(LDFLAGS) -o $@ $< $(LIBA) $(LDLIBS)
+
+tests: $(BIN) $(TESTS) $(TOOLS)
+
+# The demo district is generated (deterministic from its seed), never committed.
+DEMO_DIR := scenarios/demo
+$(DEMO_DIR)/scenario.json: $(BUILD)/tools/gen-demo
+	$(BUILD)/tools/gen-demo --seed 7 --out $(DEMO_DIR)
+
+demo: $(BIN) $(DEMO_DIR)/scenario.json
+	./tools/demo.sh $(BIN) $(DEMO_DIR) out/demo
+
+check: tests $(DEMO_DIR)/scenario.json
+	./tests/run.sh $(BUILD)
+
+asan:
+	$(MAKE) BUILD=build-asan OPT='-O1 -g' CFLAGS='$(SAN)' LDFLAGS='$(SAN)' tests
+	ASAN_OPTIONS=detect_leaks=0 UBSAN_OPTIONS=print_stacktrace=1 \
+	    ./tests/run.sh build-asan --unit-only
+
+bench: $(BIN) $(TOOLS)
+	./tools/bench.sh $(BUILD)
+
+bench-orlib: $(BIN) $(TESTS)
+	./tools/bench-orlib.sh $(BUILD)
+
+install: $(BIN)
+	install -d $(DESTDIR)$(PREFIX)/bin $(DESTDIR)$(PREFIX)/share/man/man1 \
+	    $(DESTDIR)$(PREFIX)/share/bash-completion/completions
+	install -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/sitereach
+	if [ -f docs/sitereach.1 ]; then install -m 644 docs/sitereach.1 $(DESTDIR)$(PREFIX)/share/man/man1/; fi
+	if [ -f tools/sitereach.bash ]; then install -m 644 tools/sitereach.bash \
+	    $(DESTDIR)$(PREFIX)/share/bash-completion/completions/sitereach; fi
+
+clean:
+	rm -rf build build-asan out
+
+-include $(LIB_OBJ:.o=.d) $(CMD_OBJ:.o=.d)

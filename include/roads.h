@@ -1,0 +1,70 @@
+/* roads: the road network read from any OGR line layer (GeoJSON, GeoPackage,
+ * Shapefile, OSM PBF/XML 'lines' with its 'highway' tag), reprojected to the
+ * grid's CRS. Features become vertex-to-vertex segments between road nodes;
+ * nodes of different features within the snapping tolerance merge into
+ * junctions. Bridges and tunnels join other roads only at their end vertices.
+ * Segment lengths are in metres (geodesic when the source data is lon/lat).
+ * Roads outside the grid are clipped away (counted). Wraps GDAL/OGR. */
+#ifndef ROADS_H
+#define ROADS_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#include "err.h"
+#include "grid.h"
+#include "scenario.h"
+
+enum road_flags {
+    ROAD_BRIDGE = 1,     /* joins the surface only at its ends */
+    ROAD_TUNNEL = 2,     /* likewise */
+    ROAD_ONEWAY = 4,     /* vehicles may go only from node a to node b */
+    ROAD_LIMITED = 8     /* limited access: connectors only at junctions */
+};
+
+typedef struct road_seg {
+    int32_t a, b;        /* road node indices */
+    int32_t cls;         /* index into roads_t.classes */
+    int32_t feature;     /* index into roads_t.feature_ids */
+    double length_m;     /* > 0 */
+    uint8_t flags;       /* ROAD_* */
+} road_seg_t;
+
+typedef struct road_class_count {
+    char *name;          /* class value ("(none)" when the attribute is empty) */
+    size_t n_features;   /* features of this class kept */
+    double length_m;     /* their total length inside the grid */
+    double walk_mps;     /* speeds from the scenario (or the unknown-class fallback) */
+    double vehicle_mps;
+    int known;           /* 1 when the class is in the scenario's speed table */
+} road_class_count_t;
+
+typedef struct roads {
+    double *x, *y;       /* n_nodes node coordinates in the grid CRS */
+    uint8_t *node_junction; /* n_nodes: 1 where >= 2 features meet or a line ends */
+    size_t n_nodes;
+    road_seg_t *segs;
+    size_t n_segs;
+    char **feature_ids;  /* per kept feature: its id (id field, or OSM id, or FID) */
+    size_t n_features;   /* features kept (at least one segment inside the grid) */
+    road_class_count_t *classes;
+    size_t n_classes;
+    size_t n_junctions;
+    size_t n_features_read;   /* all line features in the layer */
+    size_t n_features_clipped;/* features cut or dropped by the grid's extent */
+    size_t n_features_skipped;/* features without usable geometry */
+    double total_length_m;
+} roads_t;
+
+/* Read the road layer named in s->roads, reprojected onto g's CRS and clipped to
+ * its extent. An empty layer is allowed (returns an empty roads_t with a warning
+ * in 'w'). Unknown classes add a warning with the count and fallback speed.
+ * Errors: missing file, layer not found, layer not lines. Caller frees with roads_free. */
+int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, err_t *e);
+void roads_free(roads_t *r);  /* NULL-safe */
+
+/* Connected components of the road network (undirected, igraph). Sets *n_comp and,
+ * if 'largest' is not NULL, the node count of the largest component. */
+int roads_components(const roads_t *r, size_t *n_comp, size_t *largest, err_t *e);
+
+#endif
