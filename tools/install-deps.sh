@@ -7,7 +7,7 @@ set -eu
 
 # Build and run-time libraries (headers + pkg-config files).
 BUILD="pkg-config make gcc libglpk-dev libgdal-dev libigraph-dev libcjson-dev \
-libproj-dev libcairo2-dev"
+libproj-dev libcairo2-dev libssl-dev"
 # Tools used by the tests and cross-checks: GDAL command-line programs,
 # Debian's Python with scipy (HiGHS), networkx, pyproj and GDAL bindings.
 TEST="gdal-bin python3 python3-scipy python3-networkx python3-pyproj python3-gdal"
