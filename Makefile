@@ -25,9 +25,11 @@ ifeq ($(WERROR),1)
   WARN += -Werror
 endif
 OPT      ?= -O2 -g
-CFLAGS   += -std=c11 -D_POSIX_C_SOURCE=200809L -D_DEFAULT_SOURCE $(OPT) $(WARN) \
+SANFLAGS ?=
+CFLAGS   += $(SANFLAGS) -std=c11 -D_POSIX_C_SOURCE=200809L -D_DEFAULT_SOURCE $(OPT) $(WARN) \
             -Iinclude -Isrc -DSITEREACH_VERSION='"$(VERSION)"' \
             $(shell pkg-config --cflags $(PKGS))
+LDFLAGS  += $(SANFLAGS)
 LDLIBS   += $(shell pkg-config --libs $(PKGS)) -lglpk -lm -lpthread
 
 SAN      := -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=undefined
@@ -86,8 +88,8 @@ check: tests $(DEMO_DIR)/scenario.json
 	./tests/run.sh $(BUILD)
 
 asan:
-	$(MAKE) BUILD=build-asan OPT='-O1 -g' CFLAGS='$(SAN)' LDFLAGS='$(SAN)' tests
-	ASAN_OPTIONS=detect_leaks=0 UBSAN_OPTIONS=print_stacktrace=1 \
+	$(MAKE) BUILD=build-asan OPT='-O1 -g' SANFLAGS='$(SAN)' tests
+	ASAN_OPTIONS=detect_leaks=1 UBSAN_OPTIONS=print_stacktrace=1 \
 	    ./tests/run.sh build-asan --unit-only
 
 bench: $(BIN) $(TOOLS)

@@ -31,8 +31,8 @@ tally() {
         broken="$broken $name(exit $status, no result line)"
         return
     fi
-    p=$(echo "$line" | sed -E 's/.*[^0-9]?([0-9]+) passed, ([0-9]+) failed.*/\1/')
-    f=$(echo "$line" | sed -E 's/.*[^0-9]?([0-9]+) passed, ([0-9]+) failed.*/\2/')
+    p=$(echo " $line" | sed -E 's/.*[^0-9]([0-9]+) passed, ([0-9]+) failed.*/\1/')
+    f=$(echo " $line" | sed -E 's/.*[^0-9]([0-9]+) passed, ([0-9]+) failed.*/\2/')
     passed=$((passed + p))
     failed=$((failed + f))
     if [ "$status" -ne 0 ] && [ "$f" -eq 0 ]; then
