@@ -12,6 +12,7 @@
 
 #include "err.h"
 #include "grid.h"
+#include "table.h"
 
 /* Create folder 'dir' (and parents) if missing. */
 int out_mkdir(const char *dir, err_t *e);
@@ -40,6 +41,18 @@ int out_write_tif_f32(const char *path, const grid_t *g, const float *v, float n
                       const char *description, err_t *e);
 int out_write_tif_i32(const char *path, const grid_t *g, const int32_t *v, int32_t nodata,
                       const char *description, err_t *e);
+
+/* A GeoPackage layer of points (x[i], y[i] in the CRS 'wkt') with the attribute
+ * row i of 't' on point i. */
+int out_write_points_gpkg(const char *path, const char *layer, const char *wkt,
+                          const double *x, const double *y, const table_t *t, err_t *e);
+
+/* A GeoPackage layer of polygons from a label raster on g (label[c] = row of 't',
+ * -1 = no polygon): GDAL polygonizes the labels and each row becomes one
+ * (multi)polygon feature carrying that row's attributes. Rows with no cells get
+ * no feature. */
+int out_write_label_polygons(const char *path, const char *layer, const grid_t *g,
+                             const int32_t *label, const table_t *t, err_t *e);
 
 /* SHA-256 of a file as 64 hex characters into hex[65]; size in bytes into *size. */
 int out_sha256_file(const char *path, char hex[65], long long *size, err_t *e);

@@ -7,8 +7,12 @@
 #include <unistd.h>
 
 #include <gdal.h>
+#include <ogr_api.h>
 
 #include "check.h"
+#include <ogr_srs_api.h>
+#include <cpl_conv.h>
+
 #include "output.h"
 
 static int exists(const char *p)
@@ -107,6 +111,83 @@ int main(void)
         }
         unlink(p);
         free(p);
+    }
+    /* Tables: CSV quoting, empty cells for NaN; polygons and points in GeoPackage. */
+    {
+        static const char *names[] = {"id", "people", "note"};
+        static const int types[] = {TABLE_TEXT, TABLE_INT, TABLE_TEXT};
+        table_t *t = table_new(3, names, types);
+        char *csv = out_join(dir, "t.csv"), *gp = out_join(dir, "c.gpkg"), *pp = out_join(dir, "p.gpkg");
+        char line[256];
+        FILE *f;
+        grid_t g;
+        int32_t lab[6] = {0, 0, 1, 0, 1, 1};
+        double px[2] = {500050, 500250}, py[2] = {8999950, 8999850};
+        GDALDatasetH ds;
+
+        CHECK(t != NULL);
+        CHECK(table_add_row(t) == 0);
+        table_set_text(t, 0, 0, "A,1");
+        table_set_num(t, 0, 1, 1200);
+        table_set_text(t, 0, 2, "say \"hi\"");
+        CHECK(table_add_row(t) == 1);
+        table_set_text(t, 1, 0, "B");
+        CHECK(table_write_csv(t, csv, 6, &e) == ERR_OK);
+        f = fopen(csv, "r");
+        CHECK(f != NULL);
+        if (f) {
+            CHECK(fgets(line, sizeof line, f) && strcmp(line, "id,people,note\n") == 0);
+            CHECK(fgets(line, sizeof line, f) && strcmp(line, "\"A,1\",1200,\"say \"\"hi\"\"\"\n") == 0);
+            CHECK(fgets(line, sizeof line, f) && strcmp(line, "B,,\n") == 0);
+            fclose(f);
+        }
+        memset(&g, 0, sizeof g);
+        g.nx = 3;
+        g.ny = 2;
+        g.gt[0] = 500000;
+        g.gt[1] = 100;
+        g.gt[3] = 9000000;
+        g.gt[5] = -100;
+        g.wkt = "EPSG:32736";
+        {
+            /* GDAL accepts a WKT; build one from the EPSG code. */
+            OGRSpatialReferenceH sr = OSRNewSpatialReference(NULL);
+            char *wkt = NULL;
+            OSRImportFromEPSG(sr, 32736);
+            OSRExportToWkt(sr, &wkt);
+            g.wkt = wkt;
+            CHECK(out_write_label_polygons(gp, "catchments", &g, lab, t, &e) == ERR_OK);
+            CHECK(out_write_points_gpkg(pp, "sites", wkt, px, py, t, &e) == ERR_OK);
+            CPLFree(wkt);
+            OSRDestroySpatialReference(sr);
+        }
+        ds = GDALOpenEx(gp, GDAL_OF_VECTOR, NULL, NULL, NULL);
+        CHECK(ds != NULL);
+        if (ds) {
+            OGRLayerH l = GDALDatasetGetLayerByName(ds, "catchments");
+            OGRFeatureH ft;
+            CHECK(l != NULL && OGR_L_GetFeatureCount(l, 1) == 2);
+            /* Label 0 covers 3 cells of 100 m x 100 m = 30,000 m2 (worked by hand). */
+            while (l && (ft = OGR_L_GetNextFeature(l)) != NULL) {
+                if (strcmp(OGR_F_GetFieldAsString(ft, 0), "A,1") == 0)
+                    CHECK_NEAR(OGR_G_Area(OGR_F_GetGeometryRef(ft)), 30000, 1e-6);
+                OGR_F_Destroy(ft);
+            }
+            GDALClose(ds);
+        }
+        ds = GDALOpenEx(pp, GDAL_OF_VECTOR, NULL, NULL, NULL);
+        CHECK(ds != NULL);
+        if (ds) {
+            CHECK(OGR_L_GetFeatureCount(GDALDatasetGetLayer(ds, 0), 1) == 2);
+            GDALClose(ds);
+        }
+        unlink(csv);
+        unlink(gp);
+        unlink(pp);
+        free(csv);
+        free(gp);
+        free(pp);
+        table_free(t);
     }
     /* JSON. */
     {

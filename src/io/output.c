@@ -9,6 +9,9 @@
 #include <unistd.h>
 
 #include <gdal.h>
+#include <gdal_alg.h>
+#include <ogr_api.h>
+#include <ogr_srs_api.h>
 #include <cpl_error.h>
 #include <cpl_string.h>
 #include <openssl/evp.h>
@@ -236,5 +239,198 @@ int out_sha256_file(const char *path, char hex[65], long long *size, err_t *e)
 done:
     EVP_MD_CTX_free(ctx);
     fclose(f);
+    return rc;
+}
+
+/* Create a GPKG file at tmp with one layer and the fields of 't'. */
+static int gpkg_create(const char *tmp, const char *path, const char *layer, const char *wkt,
+                       OGRwkbGeometryType gtype, const table_t *t, GDALDatasetH *ds_out,
+                       OGRLayerH *lay_out, err_t *e)
+{
+    GDALDriverH drv = GDALGetDriverByName("GPKG");
+    OGRSpatialReferenceH srs = NULL;
+    GDALDatasetH ds;
+    OGRLayerH lay;
+
+    *ds_out = NULL;
+    if (drv == NULL) return err_set(e, ERR_INTERNAL, "GDAL has no GPKG driver");
+    unlink(tmp);
+    ds = GDALCreate(drv, tmp, 0, 0, 0, GDT_Unknown, NULL);
+    if (ds == NULL) return err_set(e, ERR_IO, "cannot create '%s': %s", path, CPLGetLastErrorMsg());
+    srs = OSRNewSpatialReference(wkt);
+    lay = GDALDatasetCreateLayer(ds, layer, srs, gtype, NULL);
+    OSRDestroySpatialReference(srs);
+    if (lay == NULL) {
+        GDALClose(ds);
+        return err_set(e, ERR_IO, "cannot create layer '%s' in '%s': %s", layer, path,
+                       CPLGetLastErrorMsg());
+    }
+    for (size_t c = 0; c < table_cols(t); c++) {
+        int ty = table_col_type(t, c);
+        OGRFieldDefnH fd = OGR_Fld_Create(table_col_name(t, c),
+                                          ty == TABLE_TEXT ? OFTString
+                                          : ty == TABLE_INT ? OFTInteger64 : OFTReal);
+        OGRErr err = OGR_L_CreateField(lay, fd, TRUE);
+        OGR_Fld_Destroy(fd);
+        if (err != OGRERR_NONE) {
+            GDALClose(ds);
+            return err_set(e, ERR_IO, "cannot add field '%s' to '%s'", table_col_name(t, c), path);
+        }
+    }
+    *ds_out = ds;
+    *lay_out = lay;
+    return ERR_OK;
+}
+
+static void set_fields(OGRFeatureH f, const table_t *t, size_t row)
+{
+    for (size_t c = 0; c < table_cols(t); c++) {
+        double v = table_num(t, row, c);
+        if (table_col_type(t, c) == TABLE_TEXT) OGR_F_SetFieldString(f, (int)c, table_text(t, row, c));
+        else if (isnan(v)) OGR_F_SetFieldNull(f, (int)c);
+        else if (table_col_type(t, c) == TABLE_INT) OGR_F_SetFieldInteger64(f, (int)c, (GIntBig)v);
+        else OGR_F_SetFieldDouble(f, (int)c, v);
+    }
+}
+
+int out_write_points_gpkg(const char *path, const char *layer, const char *wkt,
+                          const double *x, const double *y, const table_t *t, err_t *e)
+{
+    GDALDatasetH ds = NULL;
+    OGRLayerH lay = NULL;
+    char *tmp = out_tmp_name(path);
+    int rc;
+
+    if (tmp == NULL) return err_set(e, ERR_NOMEM, "out of memory writing '%s'", path);
+    CPLErrorReset();
+    rc = gpkg_create(tmp, path, layer, wkt, wkbPoint, t, &ds, &lay, e);
+    if (rc != ERR_OK) goto done;
+    if (OGR_L_StartTransaction(lay) != OGRERR_NONE) {
+        rc = err_set(e, ERR_IO, "cannot start writing '%s'", path);
+        goto done;
+    }
+    for (size_t i = 0; i < table_rows(t); i++) {
+        OGRFeatureH f = OGR_F_Create(OGR_L_GetLayerDefn(lay));
+        OGRGeometryH pt = OGR_G_CreateGeometry(wkbPoint);
+        OGR_G_SetPoint_2D(pt, 0, x[i], y[i]);
+        OGR_F_SetGeometryDirectly(f, pt);
+        set_fields(f, t, i);
+        if (OGR_L_CreateFeature(lay, f) != OGRERR_NONE) {
+            OGR_F_Destroy(f);
+            rc = err_set(e, ERR_IO, "cannot write point %zu to '%s': %s", i, path,
+                         CPLGetLastErrorMsg());
+            goto done;
+        }
+        OGR_F_Destroy(f);
+    }
+    if (OGR_L_CommitTransaction(lay) != OGRERR_NONE) {
+        rc = err_set(e, ERR_IO, "cannot finish writing '%s': %s", path, CPLGetLastErrorMsg());
+        goto done;
+    }
+    GDALClose(ds);
+    ds = NULL;
+    rc = out_rename(tmp, path, e);
+done:
+    if (ds != NULL) GDALClose(ds);
+    if (rc != ERR_OK) unlink(tmp);
+    free(tmp);
+    return rc;
+}
+
+int out_write_label_polygons(const char *path, const char *layer, const grid_t *g,
+                             const int32_t *label, const table_t *t, err_t *e)
+{
+    GDALDatasetH mem = NULL, vmem = NULL, ds = NULL;
+    OGRLayerH plays, lay = NULL;
+    OGRGeometryH *parts = NULL;
+    char *tmp = out_tmp_name(path);
+    size_t n_rows = table_rows(t);
+    int rc = ERR_OK;
+
+    if (tmp == NULL) return err_set(e, ERR_NOMEM, "out of memory writing '%s'", path);
+    CPLErrorReset();
+    parts = calloc(n_rows ? n_rows : 1, sizeof *parts);
+    if (parts == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory writing '%s'", path);
+        goto done;
+    }
+    /* Labels into a MEM raster; -1 is nodata so it makes no polygon. */
+    mem = GDALCreate(GDALGetDriverByName("MEM"), "", g->nx, g->ny, 1, GDT_Int32, NULL);
+    vmem = GDALCreate(GDALGetDriverByName("Memory"), "", 0, 0, 0, GDT_Unknown, NULL);
+    if (mem == NULL || vmem == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory polygonizing '%s'", path);
+        goto done;
+    }
+    GDALSetGeoTransform(mem, (double *)g->gt);
+    GDALSetProjection(mem, g->wkt);
+    GDALSetRasterNoDataValue(GDALGetRasterBand(mem, 1), -1);
+    if (GDALRasterIO(GDALGetRasterBand(mem, 1), GF_Write, 0, 0, g->nx, g->ny, (void *)label,
+                     g->nx, g->ny, GDT_Int32, 0, 0) != CE_None) {
+        rc = err_set(e, ERR_INTERNAL, "cannot fill label raster for '%s'", path);
+        goto done;
+    }
+    plays = GDALDatasetCreateLayer(vmem, "p", NULL, wkbPolygon, NULL);
+    {
+        OGRFieldDefnH fd = OGR_Fld_Create("label", OFTInteger);
+        OGR_L_CreateField(plays, fd, TRUE);
+        OGR_Fld_Destroy(fd);
+    }
+    if (GDALPolygonize(GDALGetRasterBand(mem, 1), GDALGetMaskBand(GDALGetRasterBand(mem, 1)),
+                       plays, 0, NULL, NULL, NULL) != CE_None) {
+        rc = err_set(e, ERR_INTERNAL, "GDAL could not polygonize '%s': %s", path,
+                     CPLGetLastErrorMsg());
+        goto done;
+    }
+    /* Regions of one label are disjoint, so a multipolygon holds them all. */
+    {
+        OGRFeatureH f;
+        OGR_L_ResetReading(plays);
+        while ((f = OGR_L_GetNextFeature(plays)) != NULL) {
+            int lab = OGR_F_GetFieldAsInteger(f, 0);
+            if (lab >= 0 && (size_t)lab < n_rows) {
+                if (parts[lab] == NULL) parts[lab] = OGR_G_CreateGeometry(wkbMultiPolygon);
+                OGR_G_AddGeometry(parts[lab], OGR_F_GetGeometryRef(f));
+            }
+            OGR_F_Destroy(f);
+        }
+    }
+    rc = gpkg_create(tmp, path, layer, g->wkt, wkbMultiPolygon, t, &ds, &lay, e);
+    if (rc != ERR_OK) goto done;
+    if (OGR_L_StartTransaction(lay) != OGRERR_NONE) {
+        rc = err_set(e, ERR_IO, "cannot start writing '%s'", path);
+        goto done;
+    }
+    for (size_t i = 0; i < n_rows; i++) {
+        OGRFeatureH f;
+        if (parts[i] == NULL) continue;
+        f = OGR_F_Create(OGR_L_GetLayerDefn(lay));
+        OGR_F_SetGeometryDirectly(f, parts[i]);
+        parts[i] = NULL;
+        set_fields(f, t, i);
+        if (OGR_L_CreateFeature(lay, f) != OGRERR_NONE) {
+            OGR_F_Destroy(f);
+            rc = err_set(e, ERR_IO, "cannot write polygon %zu to '%s': %s", i, path,
+                         CPLGetLastErrorMsg());
+            goto done;
+        }
+        OGR_F_Destroy(f);
+    }
+    if (OGR_L_CommitTransaction(lay) != OGRERR_NONE) {
+        rc = err_set(e, ERR_IO, "cannot finish writing '%s': %s", path, CPLGetLastErrorMsg());
+        goto done;
+    }
+    GDALClose(ds);
+    ds = NULL;
+    rc = out_rename(tmp, path, e);
+done:
+    if (parts != NULL)
+        for (size_t i = 0; i < n_rows; i++)
+            if (parts[i] != NULL) OGR_G_DestroyGeometry(parts[i]);
+    free(parts);
+    if (ds != NULL) GDALClose(ds);
+    if (mem != NULL) GDALClose(mem);
+    if (vmem != NULL) GDALClose(vmem);
+    if (rc != ERR_OK) unlink(tmp);
+    free(tmp);
     return rc;
 }
