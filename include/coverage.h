@@ -27,7 +27,7 @@ typedef struct band_table {
  * NULL (one zone row, all cells in "outside" row 0 counts as zone 0 then); zone[c]
  * is -1 outside every zone. limits must increase. Caller destroys with
  * coverage_bands_destroy. */
-int coverage_bands(size_t n_cells, const double *people, const float *time_s,
+int coverage_bands(size_t n_cells, const double *people, const double *time_s,
                    const int32_t *zone, size_t n_zones, const double *limits_s,
                    size_t n_bands, band_table_t *out, err_t *e);
 void coverage_bands_destroy(band_table_t *t);
@@ -46,7 +46,7 @@ typedef struct site_load {
 
 /* Fill loads[0..n_sites-1] from nearest[c] (-1 = unreachable) and time_s[c].
  * area_m2 per cell from row_area_m2[c / nx]. */
-int coverage_site_loads(size_t n_cells, size_t nx, const double *people, const float *time_s,
+int coverage_site_loads(size_t n_cells, size_t nx, const double *people, const double *time_s,
                         const int32_t *nearest, const double *row_area_m2, double limit_s,
                         size_t n_sites, site_load_t *loads, err_t *e);
 

@@ -10,7 +10,7 @@ int main(void)
     err_t e = {0};
     /* Six cells: times 10, 40, 70, 130 minutes, unreachable, and 0 people. */
     double people[6] = {100, 200, 300, 400, 500, 0};
-    float t[6] = {600, 2400, 4200, 7800, INFINITY, 60};
+    double t[6] = {600, 2400, 4200, 7800, INFINITY, 60};
     int32_t zone[6] = {0, 0, 1, 1, -1, 0};
     double lim[3] = {1800, 3600, 7200};
     band_table_t b;
@@ -32,7 +32,7 @@ int main(void)
 
     /* A time exactly on a limit belongs to that band (<= limit). */
     {
-        float t2[1] = {1800};
+        double t2[1] = {1800};
         double p2[1] = {7};
         CHECK(coverage_bands(1, p2, t2, NULL, 0, lim, 3, &b, &e) == ERR_OK);
         CHECK_NEAR(BAND_AT(&b, 0, 0), 7, 0);

@@ -7,7 +7,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-int coverage_bands(size_t n_cells, const double *people, const float *time_s,
+int coverage_bands(size_t n_cells, const double *people, const double *time_s,
                    const int32_t *zone, size_t n_zones, const double *limits_s,
                    size_t n_bands, band_table_t *out, err_t *e)
 {
@@ -35,7 +35,7 @@ int coverage_bands(size_t n_cells, const double *people, const float *time_s,
     for (size_t c = 0; c < n_cells; c++) {
         double p = people[c];
         size_t col, row;
-        float t;
+        double t;
         if (p == 0) continue;
         t = time_s[c];
         if (!isfinite(t)) {
@@ -71,7 +71,7 @@ double coverage_band_total(const band_table_t *t, size_t col)
     return (double)s;
 }
 
-int coverage_site_loads(size_t n_cells, size_t nx, const double *people, const float *time_s,
+int coverage_site_loads(size_t n_cells, size_t nx, const double *people, const double *time_s,
                         const int32_t *nearest, const double *row_area_m2, double limit_s,
                         size_t n_sites, site_load_t *loads, err_t *e)
 {
