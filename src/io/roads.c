@@ -703,8 +703,11 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
         o->classes[sg->cls].length_m += sg->length_m;
         o->total_length_m += sg->length_m;
     }
-    for (size_t i = 0; i < o->n_nodes; i++)
-        if (nmulti[i]) o->n_junctions++;
+    for (size_t i = 0; i < o->n_nodes; i++) {
+        if (!nmulti[i]) continue;
+        o->n_junctions++;
+        o->node_junction[i] = 1;
+    }
     for (size_t i = 0; i < o->n_classes; i++) {
         const road_class_count_t *cc = &o->classes[i];
         if (!cc->known)
