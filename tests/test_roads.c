@@ -301,6 +301,22 @@ static void test_bridge(void)
         CHECK(nc == 1 && big == 5);
     }
     roads_free(r);
+
+    /* A tunnel (from other_tags) under the road's middle vertex: no junction either. */
+    {
+        static const char *const F_OSM[] = {"highway", "other_tags", NULL};
+        feat_t ft[] = {
+            {"LINESTRING (100 500,500 500,900 500)", {"residential", NULL, NULL, NULL}},
+            {"LINESTRING (500 100,500 500,500 900)", {"primary", "\"tunnel\"=>\"yes\"", NULL,
+                                                      NULL}},
+        };
+        write_layer(tpath("tunnel.geojson"), "GeoJSON", UTM, wkbLineString, F_OSM, ft, 2);
+        r = load(tpath("tunnel.geojson"), 1.0, g, &w, &e);
+        CHECK(r != NULL && r->n_junctions == 0 && r->n_nodes == 6);
+        if (r) CHECK(r->segs[2].flags == ROAD_TUNNEL);
+        roads_free(r);
+    }
+    CHECK(w.n == 0);
     warn_destroy(&w);
     free_grid(g);
 }
@@ -643,6 +659,40 @@ static void test_empty_and_errors(void)
         CHECK(r == NULL && e.code == ERR_INPUT);
         CHECK_STR_HAS(e.msg, "the grid has no CRS");
         g->wkt = wkt;
+    }
+    /* A layer without a CRS is taken to be in the grid's CRS, with a warning. */
+    {
+        feat_t fn[] = {{"LINESTRING (100 100,200 100)", {"primary", NULL, NULL, NULL}}};
+        warn_list_t w2;
+        warn_init(&w2);
+        /* GeoPackage's "Undefined geographic SRS" and a shapefile without .prj. */
+        write_layer(tpath("nocrs.gpkg"), "GPKG", 0, wkbLineString, F_BASIC, fn, 1);
+        r = load(tpath("nocrs.gpkg"), 1.0, g, &w2, &e);
+        CHECK(r != NULL && r->n_segs == 1);
+        if (r) CHECK_NEAR(r->total_length_m, 100.0, 1e-9);
+        CHECK(warn_has(&w2, "has no CRS; taken to be the population grid's"));
+        roads_free(r);
+        write_layer(tpath("nocrs.shp"), "ESRI Shapefile", 0, wkbLineString, F_BASIC, fn, 1);
+        r = load(tpath("nocrs.shp"), 1.0, g, &w2, &e);
+        CHECK(r != NULL && r->n_segs == 1);
+        if (r) CHECK_NEAR(r->total_length_m, 100.0, 1e-9);
+        CHECK(warn_has(&w2, "has no CRS; taken to be the population grid's"));
+        roads_free(r);
+        warn_destroy(&w2);
+    }
+    /* Latitudes beyond 90 degrees cannot be reprojected: skipped and counted. */
+    {
+        feat_t fb[] = {{"LINESTRING (30 95,30 96)", {"primary", NULL, NULL, NULL}},
+                       {"LINESTRING (30 -1,30.001 -1)", {"primary", NULL, NULL, NULL}}};
+        warn_list_t w2;
+        warn_init(&w2);
+        write_layer(tpath("badlat.geojson"), "GeoJSON", 4326, wkbLineString, F_BASIC, fb, 2);
+        r = load(tpath("badlat.geojson"), 1.0, g, &w2, &e);
+        CHECK(r != NULL && r->n_features_skipped == 1 && r->n_features_read == 2);
+        CHECK(warn_has(&w2, "1 road features in '"));
+        CHECK(warn_has(&w2, "could not be reprojected onto the population grid's CRS; skipped"));
+        roads_free(r);
+        warn_destroy(&w2);
     }
     /* No road layer at all: walking only. */
     r = load(NULL, 1.0, g, &w, &e);

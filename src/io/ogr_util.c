@@ -199,6 +199,11 @@ int ogr_util_crs_init(ogr_util_crs_t *c, OGRLayerH l, const char *path,
     int rc = ERR_OK;
 
     memset(c, 0, sizeof *c);
+    /* GeoPackage writes layers without a CRS as "Undefined geographic SRS"
+     * (srs_id 0) or "Undefined Cartesian SRS" (srs_id -1): no CRS either. */
+    if (lsrs != NULL && OSRGetName(lsrs) != NULL &&
+        strncmp(OSRGetName(lsrs), "Undefined ", 10) == 0)
+        lsrs = NULL;
     if (grid_wkt == NULL || grid_wkt[0] == '\0') {
         rc = err_set(e, ERR_INPUT, "cannot place '%s' on the population grid: the grid has no CRS",
                      path);
