@@ -530,8 +530,10 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
                     rc = err_set(e, ERR_NOMEM, "out of memory reading roads in '%s'", path);
                     goto done;
                 }
+                idv[0] = '\0';
                 if (has_id_field) ogr_util_attr_get(&a_id, f, idv, sizeof idv);
-                else snprintf(idv, sizeof idv, "%lld", (long long)OGR_F_GetFID(f));
+                /* An empty id falls back to the FID so messages can still point at it. */
+                if (idv[0] == '\0') snprintf(idv, sizeof idv, "%lld", (long long)OGR_F_GetFID(f));
                 r.fid[r.n_f] = strdup(idv);
                 if (r.fid[r.n_f] == NULL) {
                     rc = err_set(e, ERR_NOMEM, "out of memory reading roads in '%s'", path);
@@ -716,6 +718,18 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
                      cc->walk_mps * 3.6, cc->vehicle_mps * 3.6);
     }
     if (o->n_segs == 0) warn_add(w, "road layer '%s' is empty; travel is walking only", lname);
+    /* Give back the room reserved for one node and one segment per vertex
+     * (snapping usually leaves far fewer); a failed shrink keeps the old block. */
+    if (o->n_nodes > 0) {
+        void *q;
+        if ((q = realloc(o->x, o->n_nodes * sizeof *o->x)) != NULL) o->x = q;
+        if ((q = realloc(o->y, o->n_nodes * sizeof *o->y)) != NULL) o->y = q;
+        if ((q = realloc(o->node_junction, o->n_nodes)) != NULL) o->node_junction = q;
+    }
+    if (o->n_segs > 0) {
+        void *q = realloc(o->segs, o->n_segs * sizeof *o->segs);
+        if (q != NULL) o->segs = q;
+    }
 
     *out = o;
     o = NULL;
