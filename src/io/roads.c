@@ -761,7 +761,8 @@ int roads_components(const roads_t *r, size_t *n_comp, size_t *largest, err_t *e
     *n_comp = 0;
     if (largest != NULL) *largest = 0;
     if (r->n_nodes == 0) return ERR_OK;
-    if ((ie = igraph_vector_int_init(&edges, (igraph_integer_t)(2 * r->n_segs))) != IGRAPH_SUCCESS) {
+    ie = igraph_vector_int_init(&edges, (igraph_integer_t)(2 * r->n_segs));
+    if (ie != IGRAPH_SUCCESS) {
         rc = err_set(e, ERR_GRAPH, "road components: %s", igraph_strerror(ie));
         goto done;
     }
