@@ -91,7 +91,7 @@ static int lex_number(lex_t *l)
     if (l->s[l->pos] == '0') {
         l->pos++;
         if (isdigit((unsigned char)l->s[l->pos]))
-            return lex_fail(l, l->pos - 1, "numbers may not start with 0 (write 7, not 07)");
+            return lex_fail(l, l->pos - 1, "leading zeros are not allowed in numbers (write 7, not 07)");
     } else if (lex_digits(l, "expected a digit") != 0) {
         return -1;
     }
@@ -157,7 +157,7 @@ static int lex_value(lex_t *l)
     if (c == '-' || isdigit((unsigned char)c)) return lex_number(l);
     for (size_t k = 0; k < sizeof words / sizeof words[0]; k++) {
         size_t n = strlen(words[k]);
-        if (strncmp(l->s + l->pos, words[k], n) == 0 && !isalnum((unsigned char)l->s[l->pos + n])) {
+        if (strncmp(l->s + l->pos, words[k], n) == 0) {
             l->pos += n;
             return 0;
         }
