@@ -11,6 +11,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #include "jsonv.h"
 
@@ -400,13 +401,14 @@ done:
     return rc;
 }
 
-/* Read the file at 'path' whole, then scen_parse it. */
+/* Read the file at 'path' whole (a pipe such as /dev/stdin works too), then
+ * scen_parse it. */
 int scen_load(const char *path, scen_t **out, err_t *e)
 {
     FILE *f = NULL;
-    char *text = NULL;
-    long size;
-    size_t got;
+    char *text = NULL, *grown;
+    size_t len = 0, cap = 0, got;
+    struct stat st;
     int rc;
 
     *out = NULL;
@@ -415,29 +417,35 @@ int scen_load(const char *path, scen_t **out, err_t *e)
         rc = err_set(e, ERR_IO, "cannot read scenario '%s': %s", path, strerror(errno));
         goto done;
     }
-    /* fopen succeeds on a folder; the seek or the read then says why not. */
-    if (fseek(f, 0, SEEK_END) != 0 || (size = ftell(f)) < 0 || fseek(f, 0, SEEK_SET) != 0) {
+    /* fopen succeeds on a folder; say so rather than fail oddly on the read. */
+    if (fstat(fileno(f), &st) == 0 && S_ISDIR(st.st_mode)) {
+        rc = err_set(e, ERR_IO, "cannot read scenario '%s': %s", path, strerror(EISDIR));
+        goto done;
+    }
+    do {
+        if (cap - len < 4096) {
+            cap = cap ? 2 * cap : 16384;
+            grown = realloc(text, cap);
+            if (grown == NULL) {
+                rc = err_set(e, ERR_NOMEM, "%s: out of memory", path);
+                goto done;
+            }
+            text = grown;
+        }
+        got = fread(text + len, 1, cap - len - 1, f);
+        len += got;
+        if (len > SCEN_MAX_BYTES) {
+            rc = err_set(e, ERR_INPUT, "%s: is larger than %ld bytes, too big for a scenario "
+                         "file; is it the right file?", path, SCEN_MAX_BYTES);
+            goto done;
+        }
+    } while (got > 0);
+    if (ferror(f)) {
         rc = err_set(e, ERR_IO, "cannot read scenario '%s': %s", path, strerror(errno));
         goto done;
     }
-    if (size > SCEN_MAX_BYTES) {
-        rc = err_set(e, ERR_INPUT, "%s: is %ld bytes, more than a scenario file can be (%ld); "
-                     "is it the right file?", path, size, SCEN_MAX_BYTES);
-        goto done;
-    }
-    text = malloc((size_t)size + 1);
-    if (text == NULL) {
-        rc = err_set(e, ERR_NOMEM, "%s: out of memory", path);
-        goto done;
-    }
-    got = fread(text, 1, (size_t)size, f);
-    if (ferror(f) || got != (size_t)size) {
-        rc = err_set(e, ERR_IO, "cannot read scenario '%s': %s", path,
-                     ferror(f) ? strerror(errno) : "file changed while reading");
-        goto done;
-    }
-    text[got] = '\0';
-    if (strlen(text) != got) {
+    text[len] = '\0';
+    if (strlen(text) != len) {
         int line, col;
         jsonv_line_col(text, strlen(text), &line, &col);
         rc = err_set(e, ERR_INPUT, "%s: contains a NUL byte at line %d, column %d; "
