@@ -171,7 +171,7 @@ static int lex_value(lex_t *l)
 /* Byte length of a UTF-8 byte order mark at the start of 's', or 0. */
 static size_t bom_len(const char *s)
 {
-    return memcmp(s, "\xEF\xBB\xBF", 3) == 0 ? 3 : 0;
+    return strncmp(s, "\xEF\xBB\xBF", 3) == 0 ? 3 : 0; /* strncmp: s may be shorter */
 }
 
 void jsonv_line_col(const char *text, size_t offset, int *line, int *col)
