@@ -125,6 +125,10 @@ static void test_syntax(void)
 
     /* Our own wording where python says something else or nothing. */
     syntax_at("{\"a\": \"\\uZZZZ\"}", 1, 8, "4 hex digits"); /* cJSON alone accepts it */
+    syntax_at("{\"a\": \"x\\u0000y\"}", 1, 9, "\\u0000 is not allowed");
+    syntax_at("{\"a\": \"\\uD800\"}", 1, 8, "high surrogate");
+    syntax_at("{\"a\": \"\\uD800\\u0041\"}", 1, 8, "high surrogate");
+    syntax_at("{\"a\": \"\\udc00\"}", 1, 8, "lone low surrogate");
     syntax_at("{\"a\": 07}", 1, 7, "leading zeros are not allowed");
     syntax_at("{\"a\": 1.}", 1, 9, "after the decimal point");
     syntax_at("{\"a\": 1e+}", 1, 10, "exponent");
@@ -150,6 +154,11 @@ static void test_syntax(void)
         CHECK_STR_HAS(e.msg, "nested too deeply");
         CHECK(j == NULL);
     }
+
+    /* A surrogate pair is one character (U+1F600, 4 bytes in UTF-8). */
+    CHECK(jsonv_parse("{\"a\": \"\\ud83d\\ude00\"}", "t.json", &j, &e) == ERR_OK);
+    CHECK(j != NULL && strcmp(cJSON_GetObjectItem(j, "a")->valuestring, "\xF0\x9F\x98\x80") == 0);
+    cJSON_Delete(j);
 
     /* Valid texts, with a byte order mark, escapes and every kind of value. */
     CHECK(jsonv_parse("\xEF\xBB\xBF {\"a\": [1, -2.5e3, 0.0, true, false, null, \"x\\n\\u00e9\"],"

@@ -43,6 +43,18 @@ static void lex_ws(lex_t *l)
 
 static int lex_value(lex_t *l);
 
+/* Read 4 hex digits at 's' into *u; -1 when they are not there. */
+static int hex4(const char *s, unsigned long *u)
+{
+    *u = 0;
+    for (int k = 0; k < 4; k++) {
+        if (!isxdigit((unsigned char)s[k])) return -1;
+        int c = tolower((unsigned char)s[k]);
+        *u = *u * 16 + (unsigned long)(isdigit(c) ? c - '0' : c - 'a' + 10);
+    }
+    return 0;
+}
+
 static int lex_string(lex_t *l)
 {
     size_t start = l->pos;
@@ -61,9 +73,21 @@ static int lex_string(lex_t *l)
         if (c == '\\') {
             char x = l->s[l->pos + 1];
             if (x == 'u') {
-                for (int k = 2; k < 6; k++) {
-                    if (!isxdigit((unsigned char)l->s[l->pos + k]))
-                        return lex_fail(l, l->pos, "\\u must be followed by 4 hex digits");
+                unsigned long u;
+                if (hex4(l->s + l->pos + 2, &u) != 0)
+                    return lex_fail(l, l->pos, "\\u must be followed by 4 hex digits");
+                /* cJSON cuts a string at \u0000 and fails on unpaired
+                 * surrogates; refuse both here, with a position. */
+                if (u == 0) return lex_fail(l, l->pos, "\\u0000 is not allowed in a string");
+                if (u >= 0xDC00 && u <= 0xDFFF)
+                    return lex_fail(l, l->pos, "\\u escape of a lone low surrogate");
+                if (u >= 0xD800 && u <= 0xDBFF) {
+                    unsigned long lo;
+                    if (l->s[l->pos + 6] != '\\' || l->s[l->pos + 7] != 'u' ||
+                        hex4(l->s + l->pos + 8, &lo) != 0 || lo < 0xDC00 || lo > 0xDFFF)
+                        return lex_fail(l, l->pos, "\\u escape of a high surrogate not followed "
+                                                   "by a low one");
+                    l->pos += 6;
                 }
                 l->pos += 6;
                 continue;
@@ -91,7 +115,8 @@ static int lex_number(lex_t *l)
     if (l->s[l->pos] == '0') {
         l->pos++;
         if (isdigit((unsigned char)l->s[l->pos]))
-            return lex_fail(l, l->pos - 1, "leading zeros are not allowed in numbers (write 7, not 07)");
+            return lex_fail(l, l->pos - 1,
+                            "leading zeros are not allowed in numbers (write 7, not 07)");
     } else if (lex_digits(l, "expected a digit") != 0) {
         return -1;
     }
@@ -216,11 +241,12 @@ int jsonv_parse(const char *text, const char *file, cJSON **out, err_t *e)
     }
     j = cJSON_ParseWithOpts(text, &end, 1);
     if (j == NULL) {
-        /* The syntax check passed, so this is cJSON running out of memory. */
+        /* The syntax check passed, so this is most likely cJSON running out
+         * of memory; say where it stopped in case it is not. */
         size_t off = end != NULL ? (size_t)(end - text) : 0;
         jsonv_line_col(text, off, &line, &col);
-        return err_set(e, ERR_NOMEM, "%s: cJSON could not build the tree (stopped at line %d, "
-                       "column %d); out of memory?", file, line, col);
+        return err_set(e, ERR_INPUT, "%s: cJSON could not read the text (stopped at line %d, "
+                       "column %d; out of memory?)", file, line, col);
     }
     *out = j;
     return ERR_OK;
@@ -430,7 +456,8 @@ static void fmt_range(char *buf, size_t size, jsonv_range_t r)
     fmt_num(lo, sizeof lo, r.min);
     fmt_num(hi, sizeof hi, r.max);
     if (isfinite(r.min) && isfinite(r.max))
-        snprintf(buf, size, " in %c%s, %s%c", r.min_open ? '(' : '[', lo, hi, r.max_open ? ')' : ']');
+        snprintf(buf, size, " in %c%s, %s%c", r.min_open ? '(' : '[', lo, hi,
+                 r.max_open ? ')' : ']');
     else if (isfinite(r.min)) snprintf(buf, size, " %s %s", r.min_open ? ">" : ">=", lo);
     else if (isfinite(r.max)) snprintf(buf, size, " %s %s", r.max_open ? "<" : "<=", hi);
     else buf[0] = '\0';
