@@ -34,11 +34,16 @@ typedef struct grid {
 
     /* Facts for the check report. */
     double total_people;   /* sum of people[], the invariant later stages keep */
-    size_t n_nodata;       /* cells that were nodata in the population band */
-    size_t n_nan;          /* cells that were NaN (counted apart from nodata) */
+    size_t n_nodata;       /* cells that were nodata (nodata value or mask) in the band */
+    size_t n_nan;          /* cells that were NaN where NaN is not the declared nodata */
     size_t n_populated;    /* cells with people > 0 */
     double people_on_barrier; /* persons living on barrier cells */
     double min_dx_m, max_dx_m, min_dy_m, max_dy_m; /* cell size range */
+    /* Projected grids only: the largest relative difference, sampled over the grid,
+     * between the planar cell width/height and the ground distance on the ellipsoid
+     * (e.g. about 0.11 for World Mollweide far from its central meridian). 0 for
+     * geographic grids; NAN when it could not be measured. Callers warn when large. */
+    double scale_error;
 } grid_t;
 
 /* Read the population raster at 'path' (band 1). On success *out is a new grid
