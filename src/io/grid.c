@@ -508,7 +508,7 @@ static int warp_onto(const grid_t *g, GDALDatasetH ds, layer_kind_t kind, const 
 {
     const char *what = layer_names[kind];
     GDALDriverH mem = GDALGetDriverByName("MEM");
-    GDALDatasetH dst = NULL, res;
+    GDALDatasetH dst = NULL, res, band1 = NULL, src = ds;
     GDALWarpAppOptions *wo = NULL;
     char **argv = NULL;
     double gt[6];
@@ -529,12 +529,13 @@ static int warp_onto(const grid_t *g, GDALDatasetH ds, layer_kind_t kind, const 
     GDALSetGeoTransform(dst, gt);
     GDALSetProjection(dst, g->wkt);
     GDALSetRasterNoDataValue(GDALGetRasterBand(dst, 1), NAN);
+    /* The warper skips a destination it does not overlap, leaving MEM's zeros: start
+     * from all-nodata so "not covered" never reads as class 0 or "no barrier". */
+    GDALFillRaster(GDALGetRasterBand(dst, 1), NAN, 0);
     argv = CSLAddString(argv, "-r");
     argv = CSLAddString(argv, kind == LAYER_ELEVATION ? "bilinear" : "near");
     argv = CSLAddString(argv, "-ovr");
     argv = CSLAddString(argv, "NONE");
-    argv = CSLAddString(argv, "-b");
-    argv = CSLAddString(argv, "1");
     argv = CSLAddString(argv, "-dstnodata");
     argv = CSLAddString(argv, "nan");
     argv = CSLAddString(argv, "-wo");
@@ -545,8 +546,26 @@ static int warp_onto(const grid_t *g, GDALDatasetH ds, layer_kind_t kind, const 
                      CPLGetLastErrorMsg());
         goto done;
     }
+    /* GDAL 3.6's warper has no band choice: hand it a virtual one-band view. */
+    if (GDALGetRasterCount(ds) > 1) {
+        char *targv[] = {"-of", "VRT", "-b", "1", NULL};
+        GDALTranslateOptions *to = GDALTranslateOptionsNew(targv, NULL);
+        if (to == NULL) {
+            rc = err_set(e, ERR_INTERNAL, "%s '%s': bad band options: %s", what, path,
+                         CPLGetLastErrorMsg());
+            goto done;
+        }
+        band1 = GDALTranslate("", ds, to, &usage);
+        GDALTranslateOptionsFree(to);
+        if (band1 == NULL) {
+            rc = err_set(e, ERR_INPUT, "%s '%s': cannot take band 1: %s", what, path,
+                         CPLGetLastErrorMsg());
+            goto done;
+        }
+        src = band1;
+    }
     CPLErrorReset();
-    res = GDALWarp(NULL, dst, 1, &ds, wo, &usage);
+    res = GDALWarp(NULL, dst, 1, &src, wo, &usage);
     if (res == NULL) {
         rc = err_set(e, ERR_INPUT, "%s '%s': cannot resample it onto the population grid: %s",
                      what, path, CPLGetLastErrorMsg());
@@ -557,6 +576,7 @@ static int warp_onto(const grid_t *g, GDALDatasetH ds, layer_kind_t kind, const 
 done:
     GDALWarpAppOptionsFree(wo);
     CSLDestroy(argv);
+    if (band1 != NULL) GDALClose(band1);
     if (dst != NULL) GDALClose(dst);
     return rc;
 }
