@@ -51,8 +51,10 @@ typedef struct grid {
  * no CRS, zero size, rotated geotransform, negative people (first cell and count). */
 int grid_load(const char *path, grid_t **out, err_t *e);
 
-/* Add optional layers, each resampled onto g's grid when needed. Any may be
- * NULL. Barrier cells are nonzero values of the barrier raster. */
+/* Add optional layers, each resampled onto g's grid when needed (nearest for land
+ * cover and barriers, bilinear for elevation). A NULL path adds nothing. Barrier
+ * cells are nonzero, non-nodata values of the barrier raster. Errors name the file
+ * and the layer; on error g keeps its earlier layer. */
 int grid_load_landcover(grid_t *g, const char *path, err_t *e);
 int grid_load_elevation(grid_t *g, const char *path, err_t *e);
 int grid_load_barriers(grid_t *g, const char *path, err_t *e);

@@ -281,6 +281,43 @@ static void test_geographic(void)
     grid_free(g);
 }
 
+static void test_south_up_and_world(void)
+{
+    /* South-up geographic grid (positive row step): row 0 spans 59.5N..60.5N; sizes
+     * are the same as the north-up cell above, people unchanged. */
+    const double gt_s[6] = {10, 1, 0, 59.5, 0, 1};
+    const double one[1] = {4};
+    /* World Mollweide (ESRI:54009) at 100 km: the grid corners lie off the ellipse
+     * and cannot be inverted; the distortion is still measured from the inner points
+     * and is large (0.495 here; pyproj's get_factors gives a meridional scale of 1.89
+     * at 150E 60N). */
+    const double gt_w[6] = {-18040000, 100000, 0, 9020000, 0, -100000};
+    grid_t *g = NULL;
+    err_t e = {0};
+    double *w = calloc(361 * 181, sizeof *w);
+    int c, r;
+
+    CHECK(make_tif(tpath("sup.tif"), 1, 1, gt_s, "EPSG:4326", GDT_Float32, one, 0, 0));
+    CHECK(grid_load(tpath("sup.tif"), &g, &e) == ERR_OK);
+    if (g != NULL) {
+        CHECK_NEAR(g->row_dx_m[0], 55800.0, 1.0);
+        CHECK_NEAR(g->row_dy_m[0], 111412.0, 1.0);
+        CHECK(g->total_people == 4.0);
+        CHECK(grid_locate(g, 10.5, 60.2, &c, &r) == 1 && c == 0 && r == 0);
+        CHECK(grid_locate(g, 10.5, 59.4, &c, &r) == 0);
+    }
+    grid_free(g);
+    g = NULL;
+    CHECK(make_tif(tpath("world.tif"), 361, 181, gt_w, "ESRI:54009", GDT_Float32, w, 0, 0));
+    CHECK(grid_load(tpath("world.tif"), &g, &e) == ERR_OK);
+    if (g != NULL) {
+        CHECK(isfinite(g->scale_error) && g->scale_error > 0.3);
+        CHECK(g->row_dx_m[0] == 100000.0);
+    }
+    grid_free(g);
+    free(w);
+}
+
 static void test_blocks(void)
 {
     /* A tiled raster whose size is not a multiple of the 16 x 16 tile, and a strip file:
@@ -531,7 +568,40 @@ static void test_landcover(void)
     CHECK(grid_load_landcover(g, tpath("lc.txt"), &e) == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "land-cover raster");
     CHECK_STR_HAS(e.msg, "is not a raster GDAL can read");
+    /* A NULL path adds nothing and keeps the layer. */
+    CHECK(grid_load_landcover(g, NULL, &e) == ERR_OK);
+    CHECK(g->landcover != NULL && g->landcover[0] == 100);
+    /* Two-band coarse land cover: band 1 is used, band 2 (all 99) ignored; resampled
+     * through the one-band view GDAL 3.6's warper needs. */
+    {
+        GDALDatasetH ds = GDALCreate(GDALGetDriverByName("GTiff"), tpath("lc_two.tif"), 4, 2,
+                                     2, GDT_Int16, NULL);
+        OGRSpatialReferenceH sr = OSRNewSpatialReference(NULL);
+        double gtc[6], b2[8], b1[8];
+        memcpy(gtc, gt_c, sizeof gtc);
+        memcpy(b1, vc, sizeof b1);
+        for (int i = 0; i < 8; i++) b2[i] = 99;
+        OSRImportFromEPSG(sr, 32736);
+        GDALSetSpatialRef(ds, sr);
+        OSRDestroySpatialReference(sr);
+        GDALSetGeoTransform(ds, gtc);
+        GDALSetRasterNoDataValue(GDALGetRasterBand(ds, 1), 0);
+        CHECK(GDALRasterIO(GDALGetRasterBand(ds, 1), GF_Write, 0, 0, 4, 2, b1, 4, 2,
+                           GDT_Float64, 0, 0) == CE_None);
+        CHECK(GDALRasterIO(GDALGetRasterBand(ds, 2), GF_Write, 0, 0, 4, 2, b2, 4, 2,
+                           GDT_Float64, 0, 0) == CE_None);
+        GDALClose(ds);
+    }
+    CHECK(grid_load_landcover(g, tpath("lc_two.tif"), &e) == ERR_OK);
+    if (g->landcover != NULL) {
+        CHECK(g->landcover[0] == 11);
+        CHECK(g->landcover[2] == INT32_MIN);
+        CHECK(g->landcover[23] == 17);
+    }
     grid_free(g);
+    /* No grid to put it on. */
+    CHECK(grid_load_landcover(NULL, tpath("lc_two.tif"), &e) == ERR_INTERNAL);
+    CHECK_STR_HAS(e.msg, "no population grid");
 }
 
 static void test_elevation(void)
@@ -744,6 +814,7 @@ int main(int argc, char **argv)
     test_projected();
     test_feet_and_scale();
     test_geographic();
+    test_south_up_and_world();
     test_blocks();
     test_mask();
     test_geodesic();

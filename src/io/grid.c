@@ -229,13 +229,15 @@ static int sizes_geodesic(grid_t *g, OGRSpatialReferenceH srs, const char *path,
  * at 5 x 5 points over the grid, project the ends of a one-cell step east and north
  * back to lon/lat and compare the geodesic length with the planar one. Equal-area
  * world projections (Mollweide) stretch cells by 10% or more far from their central
- * meridian, which travel times would inherit. Returns NAN when PROJ cannot invert. */
+ * meridian, which travel times would inherit. Returns NAN when no sample point could
+ * be taken back to lon/lat. */
 static double measure_scale_error(const grid_t *g, OGRSpatialReferenceH srs)
 {
     OGRSpatialReferenceH geo = NULL;
     OGRCoordinateTransformationH ct = NULL;
     struct geod_geodesic geod;
     double unit = OSRGetLinearUnits(srs, NULL), worst = 0.0;
+    int n_ok = 0;
 
     geo = OSRCloneGeogCS(srs);
     if (geo == NULL) return NAN;
@@ -254,7 +256,7 @@ static double measure_scale_error(const grid_t *g, OGRSpatialReferenceH srs)
         }
         geod_init(&geod, a, invf > 0.0 ? 1.0 / invf : 0.0);
     }
-    for (int i = 0; i < 5 && isfinite(worst); i++) {
+    for (int i = 0; i < 5; i++) {
         for (int j = 0; j < 5; j++) {
             double fx = g->nx * (0.5 + i) / 5.0, fy = g->ny * (0.5 + j) / 5.0;
             double x0 = g->gt[0] + fx * g->gt[1], y0 = g->gt[3] + fy * g->gt[5];
@@ -262,19 +264,21 @@ static double measure_scale_error(const grid_t *g, OGRSpatialReferenceH srs)
             int ok[3] = {0, 0, 0};
             double sx, sy;
 
-            if (!OCTTransformEx(ct, 3, xs, ys, NULL, ok) || !ok[0] || !ok[1] || !ok[2]) {
-                worst = NAN;
-                break;
-            }
+            /* Points off the projection's domain (corners of a world Mollweide grid)
+             * are skipped, not fatal. */
+            if (!OCTTransformEx(ct, 3, xs, ys, NULL, ok) || !ok[0] || !ok[1] || !ok[2])
+                continue;
             geod_inverse(&geod, ys[0], xs[0], ys[1], xs[1], &sx, NULL, NULL);
             geod_inverse(&geod, ys[0], xs[0], ys[2], xs[2], &sy, NULL, NULL);
+            if (!(sx > 0.0) || !(sy > 0.0)) continue;
+            n_ok++;
             worst = fmax(worst, fabs(fabs(g->gt[1]) * unit / sx - 1.0));
             worst = fmax(worst, fabs(fabs(g->gt[5]) * unit / sy - 1.0));
         }
     }
     OCTDestroyCoordinateTransformation(ct);
     OSRDestroySpatialReference(geo);
-    return worst;
+    return n_ok > 0 ? worst : NAN;
 }
 
 /* Does v equal the band's nodata value? Float32 bands store nodata rounded to float,
@@ -581,9 +585,12 @@ done:
     return rc;
 }
 
-/* Read band 1 of an optional layer onto g's grid (directly when the grids match, else
- * warped) and store it as the layer 'kind'. Values get the source band's scale and
- * offset. Errors name the file and the layer. */
+/* Read band 1 of an optional layer onto g's grid (directly, row by row, when the grids
+ * match, else warped through a Float64 buffer of 8 bytes per cell) and store it as the
+ * layer 'kind', replacing an earlier one; on error g is unchanged. Values get the
+ * source band's scale and offset. A NULL path adds nothing. Errors name the file and
+ * the layer: ERR_IO missing, ERR_INPUT not a raster, no CRS or geotransform, no valid
+ * cell over the grid, land-cover values that are not whole numbers. */
 static int load_layer(grid_t *g, const char *path, layer_kind_t kind, err_t *e)
 {
     const char *what = layer_names[kind];
@@ -598,10 +605,11 @@ static int load_layer(grid_t *g, const char *path, layer_kind_t kind, err_t *e)
     float *el = NULL;
     uint8_t *ba = NULL;
 
+    if (path == NULL) return ERR_OK;   /* the layer was not given */
     CPLPushErrorHandler(CPLQuietErrorHandler);
     if (g == NULL) {
         rc = err_set(e, ERR_INTERNAL, "%s '%s': no population grid to put it on", what,
-                     path ? path : "");
+                     path);
         goto done;
     }
     rc = open_raster(path, what, &ds, e);
