@@ -344,6 +344,10 @@ static int read_people(grid_t *g, GDALDatasetH ds, const char *path, err_t *e)
                          "%d-%d: %s", path, r0, r0 + nr - 1, CPLGetLastErrorMsg());
             goto done;
         }
+        /* Rows are read once: drop their blocks from GDAL's cache (up to 5% of RAM by
+         * default) so peak memory stays near the output array. */
+        GDALFlushRasterCache(band);
+        if (mband != NULL) GDALFlushRasterCache(mband);
         for (size_t i = 0; i < (size_t)nr * (size_t)g->nx; i++) {
             double v = row[i];
             int c = (int)(i % (size_t)g->nx), r = r0 + (int)(i / (size_t)g->nx);
@@ -544,6 +548,9 @@ static int warp_onto(const grid_t *g, GDALDatasetH ds, layer_kind_t kind, const 
     argv = CSLAddString(argv, "nan");
     argv = CSLAddString(argv, "-wo");
     argv = CSLAddString(argv, "INIT_DEST=NO_DATA");
+    /* GDAL's own worker threads compute each cell independently: same result, faster. */
+    argv = CSLAddString(argv, "-wo");
+    argv = CSLAddString(argv, "NUM_THREADS=ALL_CPUS");
     wo = GDALWarpAppOptionsNew(argv, NULL);
     if (wo == NULL) {
         rc = err_set(e, ERR_INTERNAL, "%s '%s': bad warp options: %s", what, path,
@@ -599,7 +606,7 @@ static int load_layer(grid_t *g, const char *path, layer_kind_t kind, err_t *e)
     GDALRasterBandH band, src_band;
     GDALDataType dt = GDT_Float64;
     double gt[6], nd = 0.0, scale, offset, *row = NULL;
-    int has_nd = 0, has_scale = 0, has_off = 0, rc;
+    int has_nd = 0, has_scale = 0, has_off = 0, bx = 0, by = 0, rc;
     size_t ncell, n_valid = 0;
     int32_t *lc = NULL;
     float *el = NULL;
@@ -632,6 +639,7 @@ static int load_layer(grid_t *g, const char *path, layer_kind_t kind, err_t *e)
         band = GDALGetRasterBand(warped, 1);
         has_nd = 0;   /* the warp turned nodata into NaN */
     }
+    GDALGetBlockSize(band, &bx, &by);
     row = malloc((size_t)g->nx * sizeof *row);
     if (kind == LAYER_LANDCOVER) lc = malloc(ncell * sizeof *lc);
     if (kind == LAYER_ELEVATION) el = malloc(ncell * sizeof *el);
@@ -649,6 +657,8 @@ static int load_layer(grid_t *g, const char *path, layer_kind_t kind, err_t *e)
                          CPLGetLastErrorMsg());
             goto done;
         }
+        /* Drop each finished block row from GDAL's cache (see read_people). */
+        if (by > 0 && (r + 1) % by == 0) GDALFlushRasterCache(band);
         for (int c = 0; c < g->nx; c++) {
             size_t i = (size_t)r * (size_t)g->nx + (size_t)c;
             double v = row[c];
