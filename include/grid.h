@@ -46,9 +46,11 @@ typedef struct grid {
     double scale_error;
 } grid_t;
 
-/* Read the population raster at 'path' (band 1). On success *out is a new grid
- * (caller frees with grid_free). Errors name the file: missing, not a raster,
- * no CRS, zero size, rotated geotransform, negative people (first cell and count). */
+/* Read the population raster at 'path' (band 1, with its scale/offset). Nodata,
+ * masked and NaN cells become 0 people and are counted. On success *out is a new grid
+ * (caller frees with grid_free). Errors name the file: missing (ERR_IO), not a raster,
+ * zero size, no bands, no CRS, no or rotated geotransform, negative or infinite
+ * people (first cell and count) (ERR_INPUT). The input file is never modified. */
 int grid_load(const char *path, grid_t **out, err_t *e);
 
 /* Add optional layers, each resampled onto g's grid when needed (nearest for land

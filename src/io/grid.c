@@ -742,6 +742,7 @@ int grid_load_barriers(grid_t *g, const char *path, err_t *e)
     return load_layer(g, path, LAYER_BARRIER, e);
 }
 
+/* Release a grid and every layer it holds; NULL does nothing. */
 void grid_free(grid_t *g)
 {
     if (g == NULL) return;
