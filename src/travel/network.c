@@ -55,16 +55,16 @@ static int push_edge(edge_buf_t *b, int64_t from, int64_t to, double w, err_t *e
  * Without a land-cover layer every passable cell has factor 1 (no information, so
  * no change); cover_default_factor applies to classes missing from the table and
  * to land-cover nodata. */
-static float cell_factor(const grid_t *g, const scen_t *s, size_t c)
+static double cell_factor(const grid_t *g, const scen_t *s, size_t c)
 {
-    if (g->barrier != NULL && g->barrier[c] != 0) return 0.0f;
-    if (g->landcover == NULL) return 1.0f;
+    if (g->barrier != NULL && g->barrier[c] != 0) return 0.0;
+    if (g->landcover == NULL) return 1.0;
     int32_t v = g->landcover[c];
     if (v != INT32_MIN) {
         for (size_t i = 0; i < s->n_cover_factors; i++)
-            if (s->cover_factors[i].value == v) return (float)s->cover_factors[i].factor;
+            if (s->cover_factors[i].value == v) return s->cover_factors[i].factor;
     }
-    return (float)s->cover_default_factor;
+    return s->cover_default_factor;
 }
 
 /* Neighbour offsets (row, col), only the forward half: each pair of cells is visited
@@ -83,7 +83,7 @@ static const int OFFS[8][2] = {
  * cell is impassable, when a diagonal squeezes between two impassable cells (it
  * would cross a one-cell barrier line at its corner; common practice, no source),
  * or when a knight move touches an impassable cell. */
-static int add_walk_edges(const grid_t *g, const scen_t *s, const float *fac, edge_buf_t *b,
+static int add_walk_edges(const grid_t *g, const scen_t *s, const double *fac, edge_buf_t *b,
                           size_t *n_added, err_t *e)
 {
     const int nx = g->nx, ny = g->ny;
@@ -193,7 +193,7 @@ static int64_t cell_of_point(const network_t *net, double x, double y, int *col,
  * walking speed of that cell: walk_mps x its land-cover factor. Slope is left out
  * over this half-cell hop. None when the node is off the grid or the cell is
  * impassable. */
-static int add_connector(network_t *net, const grid_t *g, const scen_t *s, const float *fac,
+static int add_connector(network_t *net, const grid_t *g, const scen_t *s, const double *fac,
                          int64_t node, double x, double y, edge_buf_t *b, err_t *e)
 {
     int col = 0, row = 0;
@@ -202,7 +202,7 @@ static int add_connector(network_t *net, const grid_t *g, const scen_t *s, const
         net->st.n_road_off_grid++;
         return ERR_OK;
     }
-    if (fac[c] <= 0.0f) return ERR_OK;
+    if (fac[c] <= 0.0) return ERR_OK;
     double cx = net->gt[0] + (col + 0.5) * net->gt[1];
     double cy = net->gt[3] + (row + 0.5) * net->gt[5];
     double dxm = (x - cx) / fabs(net->gt[1]) * g->row_dx_m[row];
@@ -245,7 +245,7 @@ static int check_roads(const roads_t *r, err_t *e)
  * ends and limited-access junctions get theirs); a segment is not ordinary when it is
  * a bridge, a tunnel or limited access. */
 static int add_roads(network_t *net, const grid_t *g, const roads_t *r, const scen_t *s,
-                     const float *fac, edge_buf_t *b, err_t *e)
+                     const double *fac, edge_buf_t *b, err_t *e)
 {
     const uint8_t NOT_PLAIN = ROAD_BRIDGE | ROAD_TUNNEL | ROAD_LIMITED;
     uint8_t *plain = NULL;     /* per original node: 1 has an ordinary segment, 2 any */
@@ -359,7 +359,7 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
                   err_t *e)
 {
     network_t *net = NULL;
-    float *fac = NULL;
+    double *fac = NULL;
     edge_buf_t b;
     int b_ends = 0, b_w = 0;
     int rc = ERR_OK;
@@ -413,7 +413,7 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
     }
     for (int64_t c = 0; c < net->n_cells; c++) {
         fac[c] = cell_factor(g, s, (size_t)c);
-        if (fac[c] <= 0.0f) net->st.n_cells_blocked++;
+        if (fac[c] <= 0.0) net->st.n_cells_blocked++;
     }
 
     /* Reserve the whole list once: at most neighbours directed edges per cell, two
