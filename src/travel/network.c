@@ -568,6 +568,7 @@ static int cmp_virt(const void *a, const void *b)
 static virt_edge_t *find_virt(const network_t *net, int64_t node)
 {
     virt_edge_t key = {node, 0};
+    if (net->n_virt == 0) return NULL;
     return bsearch(&key, net->virt, net->n_virt, sizeof key, cmp_virt);
 }
 
