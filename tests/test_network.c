@@ -338,12 +338,20 @@ static void test_roads(void)
     CHECK(weight_of(net, network_road_node(net, 0), 0) >= 0.0);
     CHECK(weight_of(net, network_road_node(net, 1), 4) < 0.0);
     network_free(net);
-    /* A road node on a barrier cell gets no connector. */
+    /* A road end on a barrier cell joins the nearest passable neighbour cell (here
+     * cell 3, 100 m away); an extra node on a barrier cell gets no connector. */
     r->segs[0].flags = 0;
     g->barrier = calloc(5, 1);
     g->barrier[4] = 1;
+    g->barrier[2] = 1;
     CHECK(network_build(g, r, &s, &net, &e) == ERR_OK);
     CHECK(weight_of(net, network_road_node(net, 1), 4) < 0.0);
+    CHECK_REL(weight_of(net, network_road_node(net, 1), 3), 100.0, 1e-12);
+    CHECK_REL(weight_of(net, 3, network_road_node(net, 1)), 100.0, 1e-12);
+    CHECK(weight_of(net, 8, 2) < 0.0);
+    CHECK(weight_of(net, 8, 1) < 0.0 && weight_of(net, 8, 3) < 0.0);
+    network_get_stats(net, &st);
+    CHECK(st.n_connector_edges == 8);
     network_free(net);
     /* A road node outside the grid: counted, no connector. */
     free(g->barrier);

@@ -187,27 +187,57 @@ static int64_t cell_of_point(const network_t *net, double x, double y, int *col,
     return (int64_t)r * net->nx + c;
 }
 
-/* Connector pair between road node 'node' at (x,y) and the cell containing it.
- * Weight = straight distance from the node to the cell centre (metres, using the
- * row's cell size in metres, so it also holds for lon/lat grids) at the off-road
- * walking speed of that cell: walk_mps x its land-cover factor. Slope is left out
- * over this half-cell hop. None when the node is off the grid or the cell is
- * impassable. */
-static int add_connector(network_t *net, const grid_t *g, const scen_t *s, const double *fac,
-                         int64_t node, double x, double y, edge_buf_t *b, err_t *e)
+/* Distance in metres from (x,y) to the centre of cell (col,row), using that row's
+ * cell size in metres, so it also holds on lon/lat grids. */
+static double dist_to_centre(const network_t *net, const grid_t *g, double x, double y,
+                             int col, int row)
 {
-    int col = 0, row = 0;
-    int64_t c = cell_of_point(net, x, y, &col, &row);
-    if (c < 0) {
-        net->st.n_road_off_grid++;
-        return ERR_OK;
-    }
-    if (fac[c] <= 0.0) return ERR_OK;
     double cx = net->gt[0] + (col + 0.5) * net->gt[1];
     double cy = net->gt[3] + (row + 0.5) * net->gt[5];
     double dxm = (x - cx) / fabs(net->gt[1]) * g->row_dx_m[row];
     double dym = (y - cy) / fabs(net->gt[5]) * g->row_dy_m[row];
-    double w = hypot(dxm, dym) / (s->walk_mps * fac[c]);
+    return hypot(dxm, dym);
+}
+
+/* Connector pair between road node 'node' at (x,y) and the cell containing it.
+ * Weight = straight distance from the node to the cell centre at the off-road
+ * walking speed of that cell: walk_mps x its land-cover factor (slope is left out
+ * over this hop of at most a cell diagonal). None when the node is off the grid.
+ * When the cell is impassable (a bridge end that falls in a river cell of a coarse
+ * grid, say) and 'fallback' is set, the node joins the nearest passable of the 8
+ * surrounding cells instead, so the road still meets the land; otherwise none. */
+static int add_connector(network_t *net, const grid_t *g, const scen_t *s, const double *fac,
+                         int64_t node, double x, double y, int fallback, edge_buf_t *b,
+                         err_t *e)
+{
+    int col = 0, row = 0;
+    int64_t c = cell_of_point(net, x, y, &col, &row);
+    double d;
+    if (c < 0) {
+        net->st.n_road_off_grid++;
+        return ERR_OK;
+    }
+    d = dist_to_centre(net, g, x, y, col, row);
+    if (fac[c] <= 0.0) {
+        int64_t best = -1;
+        double bd = INFINITY;
+        for (int dr = -1; fallback && dr <= 1; dr++) {
+            for (int dc = -1; dc <= 1; dc++) {
+                int r2 = row + dr, c2 = col + dc;
+                if (r2 < 0 || c2 < 0 || r2 >= net->ny || c2 >= net->nx) continue;
+                int64_t c3 = (int64_t)r2 * net->nx + c2;
+                double d3 = dist_to_centre(net, g, x, y, c2, r2);
+                if (fac[c3] > 0.0 && d3 < bd) {
+                    bd = d3;
+                    best = c3;
+                }
+            }
+        }
+        if (best < 0) return ERR_OK;
+        c = best;
+        d = bd;
+    }
+    double w = d / (s->walk_mps * fac[c]);
     int rc = push_edge(b, node, c, w, e);
     if (rc == ERR_OK) rc = push_edge(b, c, node, w, e);
     if (rc == ERR_OK) net->st.n_connector_edges += 2;
@@ -243,7 +273,8 @@ static int check_roads(const roads_t *r, err_t *e)
  * ordinary segment, every original node with at least one ordinary segment, and
  * original nodes marked as junctions (which include line ends, so bridge and tunnel
  * ends and limited-access junctions get theirs); a segment is not ordinary when it is
- * a bridge, a tunnel or limited access. */
+ * a bridge, a tunnel or limited access. Original nodes on an impassable cell join a
+ * passable neighbour cell (see add_connector); extra nodes there get none. */
 static int add_roads(network_t *net, const grid_t *g, const roads_t *r, const scen_t *s,
                      const double *fac, edge_buf_t *b, err_t *e)
 {
@@ -292,7 +323,7 @@ static int add_roads(network_t *net, const grid_t *g, const roads_t *r, const sc
                 net->rx[idx] = xa + t * (xb - xa);
                 net->ry[idx] = ya + t * (yb - ya);
                 if (plain_seg) {
-                    rc = add_connector(net, g, s, fac, cur, net->rx[idx], net->ry[idx], b, e);
+                    rc = add_connector(net, g, s, fac, cur, net->rx[idx], net->ry[idx], 0, b, e);
                     if (rc != ERR_OK) goto done;
                 }
             }
@@ -309,7 +340,7 @@ static int add_roads(network_t *net, const grid_t *g, const roads_t *r, const sc
         int junction = r->node_junction != NULL && r->node_junction[i] != 0;
         /* Isolated nodes (no segment) keep a connector: harmless and visible. */
         if ((plain[i] & 1) || junction || plain[i] == 0) {
-            rc = add_connector(net, g, s, fac, base + (int64_t)i, r->x[i], r->y[i], b, e);
+            rc = add_connector(net, g, s, fac, base + (int64_t)i, r->x[i], r->y[i], 1, b, e);
             if (rc != ERR_OK) goto done;
         }
     }
