@@ -34,20 +34,29 @@ typedef struct grid {
 
     /* Facts for the check report. */
     double total_people;   /* sum of people[], the invariant later stages keep */
-    size_t n_nodata;       /* cells that were nodata in the population band */
-    size_t n_nan;          /* cells that were NaN (counted apart from nodata) */
+    size_t n_nodata;       /* cells that were nodata (nodata value or mask) in the band */
+    size_t n_nan;          /* cells that were NaN where NaN is not the declared nodata */
     size_t n_populated;    /* cells with people > 0 */
     double people_on_barrier; /* persons living on barrier cells */
     double min_dx_m, max_dx_m, min_dy_m, max_dy_m; /* cell size range */
+    /* Projected grids only: the largest relative difference, sampled over the grid,
+     * between the planar cell width/height and the ground distance on the ellipsoid
+     * (e.g. about 0.11 for World Mollweide far from its central meridian). 0 for
+     * geographic grids; NAN when it could not be measured. Callers warn when large. */
+    double scale_error;
 } grid_t;
 
-/* Read the population raster at 'path' (band 1). On success *out is a new grid
- * (caller frees with grid_free). Errors name the file: missing, not a raster,
- * no CRS, zero size, rotated geotransform, negative people (first cell and count). */
+/* Read the population raster at 'path' (band 1, with its scale/offset). Nodata,
+ * masked and NaN cells become 0 people and are counted. On success *out is a new grid
+ * (caller frees with grid_free). Errors name the file: missing (ERR_IO), not a raster,
+ * zero size, no bands, no CRS, no or rotated geotransform, negative or infinite
+ * people (first cell and count) (ERR_INPUT). The input file is never modified. */
 int grid_load(const char *path, grid_t **out, err_t *e);
 
-/* Add optional layers, each resampled onto g's grid when needed. Any may be
- * NULL. Barrier cells are nonzero values of the barrier raster. */
+/* Add optional layers, each resampled onto g's grid when needed (nearest for land
+ * cover and barriers, bilinear for elevation). A NULL path adds nothing. Barrier
+ * cells are nonzero, non-nodata values of the barrier raster. Errors name the file
+ * and the layer; on error g keeps its earlier layer. */
 int grid_load_landcover(grid_t *g, const char *path, err_t *e);
 int grid_load_elevation(grid_t *g, const char *path, err_t *e);
 int grid_load_barriers(grid_t *g, const char *path, err_t *e);

@@ -23,8 +23,14 @@ typedef struct points {
 } points_t;
 
 /* Read the point layer 'l' ('what' names it in messages: "existing sites", ...).
- * Errors: missing file, not points, duplicate ids, points outside the grid or on
- * barrier cells (listing the ids), negative capacity. Caller frees with points_free. */
+ * OSM files default to their "points" layer; a named field missing from its own
+ * column is also looked up in OSM's other_tags. A layer without a CRS is taken
+ * to be in the grid's CRS. An empty layer gives n = 0.
+ * Errors (ERR_INPUT unless said): missing file (ERR_IO), not points, a MultiPoint
+ * of more than one point, a named field missing (listing the fields present),
+ * duplicate or empty ids, a capacity/cost/storage value that is empty, not a
+ * number, NaN or negative (cost also infinite), points outside the grid or on
+ * barrier cells (listing the first 10 ids). Caller frees with points_free. */
 int points_load(const scen_layer_t *l, const char *what, const grid_t *g,
                 points_t **out, err_t *e);
 void points_free(points_t *p);  /* NULL-safe */

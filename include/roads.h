@@ -41,7 +41,9 @@ typedef struct road_class_count {
 
 typedef struct roads {
     double *x, *y;       /* n_nodes node coordinates in the grid CRS */
-    uint8_t *node_junction; /* n_nodes: 1 where >= 2 features meet or a line ends */
+    uint8_t *node_junction; /* n_nodes: 1 where >= 2 features meet or a line ends
+                            (a piece's first or last vertex, cut points at the grid
+                            edge included) */
     size_t n_nodes;
     road_seg_t *segs;
     size_t n_segs;
@@ -49,17 +51,27 @@ typedef struct roads {
     size_t n_features;   /* features kept (at least one segment inside the grid) */
     road_class_count_t *classes;
     size_t n_classes;
-    size_t n_junctions;
-    size_t n_features_read;   /* all line features in the layer */
+    size_t n_junctions;  /* nodes holding vertices of >= 2 different features; line
+                            ends that touch nothing and a loop closing on itself
+                            are not counted */
+    size_t n_features_read;   /* line features in the layer (OSM: those with the
+                                 class tag, normally 'highway', set) */
     size_t n_features_clipped;/* features cut or dropped by the grid's extent */
-    size_t n_features_skipped;/* features without usable geometry */
+    size_t n_features_skipped;/* features without usable geometry: empty, not a
+                                 line (mixed layers), or not reprojectable */
     double total_length_m;
 } roads_t;
 
 /* Read the road layer named in s->roads, reprojected onto g's CRS and clipped to
  * its extent. An empty layer is allowed (returns an empty roads_t with a warning
- * in 'w'). Unknown classes add a warning with the count and fallback speed.
- * Errors: missing file, layer not found, layer not lines. Caller frees with roads_free. */
+ * in 'w'); so is s->roads.path == NULL (walking only). Unknown classes add a
+ * warning with the count and fallback speed. Snapping: a vertex joins the
+ * nearest node within s->snap_tolerance_m (metres, measured in the grid CRS)
+ * that already holds another feature's vertex, or a vertex of its own feature
+ * at exactly the same spot (closed loops); two steps whose ends thereby merge
+ * into one node are dropped. Errors: missing file (ERR_IO), layer not found,
+ * layer not lines, a named field missing, no transformation to the grid CRS
+ * (ERR_INPUT). Caller frees with roads_free. */
 int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, err_t *e);
 void roads_free(roads_t *r);  /* NULL-safe */
 

@@ -35,7 +35,7 @@ typedef struct scen_road_class {
 /* Walking-speed factor for one land-cover class value. */
 typedef struct scen_cover_factor {
     int value;           /* raster class value */
-    double factor;       /* 0 < factor <= 2; 0 makes the class impassable */
+    double factor;       /* 0 <= factor <= 2; 0 makes the class impassable */
 } scen_cover_factor_t;
 
 enum scen_mode { SCEN_MODE_WALK = 0, SCEN_MODE_VEHICLE = 1 };
@@ -71,11 +71,11 @@ typedef struct scen {
     double walk_mps;         /* "travel.walk.speed_kmh", default 5.0 km/h, (0, 20] */
     int use_slope;           /* "travel.walk.slope": Tobler on elevation, default true */
     double snap_tolerance_m; /* "travel.snap_tolerance_m", default 1.0, [0, 1000] */
-    scen_road_class_t *road_classes;  /* "travel.road_speeds", defaults in docs */
+    scen_road_class_t *road_classes;  /* "travel.road_speeds", defaults in docs; sorted by name */
     size_t n_road_classes;
     double unknown_walk_mps;    /* "travel.unknown_class.walk_kmh", default 4.0 */
     double unknown_vehicle_mps; /* "travel.unknown_class.vehicle_kmh", default 20 */
-    scen_cover_factor_t *cover_factors; /* "travel.landcover_factors" */
+    scen_cover_factor_t *cover_factors; /* "travel.landcover_factors"; sorted by value */
     size_t n_cover_factors;
     double cover_default_factor;        /* "travel.landcover_default", default 1.0 */
 
@@ -95,5 +95,8 @@ void scen_free(scen_t *s);   /* NULL-safe */
 /* Speeds for a road class name; falls back to the unknown-class speeds and
  * returns 0 in that case, 1 when the class is in the table. */
 int scen_road_speed(const scen_t *s, const char *cls, double *walk_mps, double *vehicle_mps);
+/* Walking-speed factor for a land-cover class value; the default factor when
+ * the class is not listed. */
+double scen_cover_factor(const scen_t *s, int value);
 
 #endif

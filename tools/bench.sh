@@ -1,0 +1,20 @@
+#!/bin/sh
+# Benchmarks of the travel stage (prints figures; never part of 'make check').
+# Usage: tools/bench.sh BUILD_DIR
+# Synthetic grids of 1M and 10M cells with a road lattice and 200 sites: build time,
+# nearest-site pass time, peak memory per cell (getrusage), and 1,000 bounded
+# 60-minute walking searches on 2 threads. Targets on 2 cores: 10M nearest-site
+# pass <= 40 s, peak <= 600 bytes per cell, 1,000 bounded searches <= 20 s.
+# Each size runs in its own process so that its peak memory is its own.
+set -u
+build=${1:-build}
+bin="$build/tools/bench-travel"
+if [ ! -x "$bin" ]; then
+    echo "bench.sh: $bin is not built (run make)" >&2
+    exit 1
+fi
+echo "# machine: $(nproc) cores, $(awk '/MemTotal/ {printf "%.1f GB", $2/1048576}' /proc/meminfo)"
+for cells in 1000000 10000000; do
+    echo "## travel, $cells cells"
+    "$bin" --cells "$cells" --sites 200 --searches 1000 --limit-min 60 --threads 2 || exit 1
+done
