@@ -20,24 +20,6 @@
 #include "check.h"
 #include "roads.h"
 
-/* Until the scenario module is linked in, a stand-in with the documented
- * semantics (exact name match, else the unknown-class speeds). The real
- * definition, when present in the library, wins only if its object is pulled
- * in for another reason; both behave alike. */
-__attribute__((weak)) int scen_road_speed(const scen_t *s, const char *cls, double *walk_mps,
-                                          double *vehicle_mps)
-{
-    for (size_t i = 0; i < s->n_road_classes; i++) {
-        if (strcmp(s->road_classes[i].name, cls) == 0) {
-            *walk_mps = s->road_classes[i].walk_mps;
-            *vehicle_mps = s->road_classes[i].vehicle_mps;
-            return 1;
-        }
-    }
-    *walk_mps = s->unknown_walk_mps;
-    *vehicle_mps = s->unknown_vehicle_mps;
-    return 0;
-}
 
 static char tmpdir[64];
 
@@ -73,10 +55,11 @@ static void free_grid(grid_t *g)
     free(g);
 }
 
+/* Sorted by name, as scen_load leaves it (scen_road_speed searches it by halves). */
 static scen_road_class_t speed_table[] = {
-    {"residential", 5.0 / 3.6, 30.0 / 3.6},
-    {"primary", 5.0 / 3.6, 80.0 / 3.6},
     {"footway", 5.0 / 3.6, 0.0},
+    {"primary", 5.0 / 3.6, 80.0 / 3.6},
+    {"residential", 5.0 / 3.6, 30.0 / 3.6},
 };
 
 static scen_t *mk_scen(const char *roads_path, double tol)

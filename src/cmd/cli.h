@@ -32,5 +32,7 @@ int cli_fail(const char *cmd, const err_t *e);
 /* The commands, one file each. */
 int cmd_check(const cli_options_t *o, err_t *e);
 extern const char cmd_check_usage[];
+int cmd_reach(const cli_options_t *o, err_t *e);
+extern const char cmd_reach_usage[];
 
 #endif

@@ -15,6 +15,8 @@
 static const cli_command_t commands[] = {
     {"check", "validate a scenario and its inputs, print a report", cmd_check_usage, 0,
      cmd_check},
+    {"reach", "travel times to the nearest site, catchments, people by time band",
+     cmd_reach_usage, 1, cmd_reach},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 

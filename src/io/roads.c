@@ -365,8 +365,9 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
                  lname, path);
 
     /* Attributes. A named field that is missing is an error; the optional tags
-     * (bridge, tunnel, one-way) are simply absent. */
-    {
+     * (bridge, tunnel, one-way) are simply absent. An empty layer (which some
+     * formats store without fields) is allowed: walking only, with a warning. */
+    if (osm || OGR_L_GetFeatureCount(l, TRUE) != 0) {
         char fl[300];
         const char *need[2] = {cls_field, s->road_access_field};
         const char *role[2] = {"road class field", "road access field"};

@@ -1,0 +1,190 @@
+/* inputs: load and validate all inputs of a scenario (see include/inputs.h). */
+#include "inputs.h"
+
+#include <math.h>
+#include <stdlib.h>
+
+#include "progress.h"
+
+static int load_points(const scen_layer_t *l, const char *what, const grid_t *g,
+                       points_t **out, err_t *e)
+{
+    *out = NULL;
+    if (l->path == NULL) return ERR_OK;
+    return points_load(l, what, g, out, e);
+}
+
+int inputs_load(const char *scenario_path, int quiet, inputs_t **out, err_t *e)
+{
+    inputs_t *in = calloc(1, sizeof *in);
+    progress_t pr;
+    double t0 = progress_now();
+    int rc = ERR_OK;
+
+    *out = NULL;
+    if (in == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    warn_init(&in->warnings);
+    progress_init(&pr, quiet);
+
+    rc = scen_load(scenario_path, &in->scen, e);
+    if (rc != ERR_OK) goto done;
+    progress_start(&pr, "reading population grid");
+    rc = grid_load(in->scen->population, &in->grid, e);
+    if (rc == ERR_OK && in->scen->landcover != NULL)
+        rc = grid_load_landcover(in->grid, in->scen->landcover, e);
+    if (rc == ERR_OK && in->scen->elevation != NULL)
+        rc = grid_load_elevation(in->grid, in->scen->elevation, e);
+    if (rc == ERR_OK && in->scen->barriers != NULL)
+        rc = grid_load_barriers(in->grid, in->scen->barriers, e);
+    progress_end(&pr);
+    if (rc != ERR_OK) goto done;
+    if (in->grid->n_nodata > 0 || in->grid->n_nan > 0)
+        warn_add(&in->warnings, "%zu nodata and %zu NaN cells in '%s' counted as 0 people",
+                 in->grid->n_nodata, in->grid->n_nan, in->scen->population);
+    /* Some projections (e.g. world equal-area ones) stretch distances by
+     * 10% or more away from their centre; 3% is our own threshold, common
+     * practice with no source. */
+    if (in->grid->scale_error > 0.03)
+        warn_add(&in->warnings,
+                 "the grid's CRS '%s' distorts distances by up to %.0f%% here, so travel times will be off by as much; reproject the inputs to a local UTM zone with gdalwarp",
+                 in->grid->crs_name, 100.0 * in->grid->scale_error);
+    if (in->grid->total_people <= 0)
+        warn_add(&in->warnings, "population grid '%s' holds no people", in->scen->population);
+    if (in->grid->people_on_barrier > 0)
+        warn_add(&in->warnings, "%.0f people live on barrier cells; they cannot reach any site",
+                 in->grid->people_on_barrier);
+
+    if (in->scen->roads.path != NULL) {
+        progress_start(&pr, "reading roads");
+        rc = roads_load(in->scen, in->grid, &in->roads, &in->warnings, e);
+        progress_end(&pr);
+        if (rc != ERR_OK) goto done;
+        rc = roads_components(in->roads, &in->road_components, &in->road_largest, e);
+        if (rc != ERR_OK) goto done;
+    }
+    rc = load_points(&in->scen->existing, "existing sites", in->grid, &in->existing, e);
+    if (rc == ERR_OK)
+        rc = load_points(&in->scen->candidates, "candidate sites", in->grid, &in->candidates, e);
+    if (rc == ERR_OK) rc = load_points(&in->scen->depots, "depots", in->grid, &in->depots, e);
+    if (rc != ERR_OK) goto done;
+    in->seconds = progress_now() - t0;
+    *out = in;
+    in = NULL;
+done:
+    inputs_free(in);
+    return rc;
+}
+
+void inputs_free(inputs_t *in)
+{
+    if (in == NULL) return;
+    points_free(in->existing);
+    points_free(in->candidates);
+    points_free(in->depots);
+    roads_free(in->roads);
+    grid_free(in->grid);
+    scen_free(in->scen);
+    warn_destroy(&in->warnings);
+    free(in);
+}
+
+/* Distance from (x, y) to the nearest road node, metres (planar in the grid
+ * CRS, or geodesic when the grid is lon/lat). INFINITY when there are no roads. */
+static double nearest_road_m(const inputs_t *in, double x, double y)
+{
+    const roads_t *r = in->roads;
+    double best = INFINITY;
+    size_t bi = 0;
+
+    if (r == NULL || r->n_nodes == 0) return INFINITY;
+    for (size_t i = 0; i < r->n_nodes; i++) {
+        double dx = r->x[i] - x, dy = r->y[i] - y;
+        if (in->grid->geographic) dx *= cos(y * M_PI / 180.0);
+        if (dx * dx + dy * dy < best) {
+            best = dx * dx + dy * dy;
+            bi = i;
+        }
+    }
+    if (in->grid->geographic) return grid_geodesic_m(x, y, r->x[bi], r->y[bi]);
+    return sqrt(best);
+}
+
+static cJSON *points_json(const inputs_t *in, const points_t *p, const char *what)
+{
+    cJSON *o = cJSON_CreateObject();
+    double worst = 0;
+
+    for (size_t i = 0; i < p->n; i++) {
+        double d = nearest_road_m(in, p->x[i], p->y[i]);
+        if (isfinite(d) && d > worst) worst = d;
+    }
+    cJSON_AddStringToObject(o, "layer", what);
+    cJSON_AddNumberToObject(o, "count", (double)p->n);
+    cJSON_AddNumberToObject(o, "max_road_distance_m", worst);
+    return o;
+}
+
+int inputs_report(const inputs_t *in, cJSON **out, err_t *e)
+{
+    const grid_t *g = in->grid;
+    cJSON *r = cJSON_CreateObject(), *gj, *pts, *w;
+
+    *out = NULL;
+    if (r == NULL) return err_set(e, ERR_NOMEM, "out of memory building the report");
+    cJSON_AddStringToObject(r, "scenario", in->scen->file);
+    cJSON_AddStringToObject(r, "name", in->scen->name);
+    gj = cJSON_AddObjectToObject(r, "grid");
+    cJSON_AddStringToObject(gj, "path", in->scen->population);
+    cJSON_AddStringToObject(gj, "crs", g->crs_name);
+    cJSON_AddBoolToObject(gj, "geographic", g->geographic);
+    cJSON_AddNumberToObject(gj, "columns", g->nx);
+    cJSON_AddNumberToObject(gj, "rows", g->ny);
+    cJSON_AddNumberToObject(gj, "cell_width_min_m", g->min_dx_m);
+    cJSON_AddNumberToObject(gj, "cell_width_max_m", g->max_dx_m);
+    cJSON_AddNumberToObject(gj, "cell_height_min_m", g->min_dy_m);
+    cJSON_AddNumberToObject(gj, "cell_height_max_m", g->max_dy_m);
+    cJSON_AddNumberToObject(gj, "people", g->total_people);
+    cJSON_AddNumberToObject(gj, "populated_cells", (double)g->n_populated);
+    cJSON_AddNumberToObject(gj, "nodata_cells", (double)g->n_nodata);
+    cJSON_AddNumberToObject(gj, "nan_cells", (double)g->n_nan);
+    cJSON_AddNumberToObject(gj, "people_on_barriers", g->people_on_barrier);
+    cJSON_AddBoolToObject(gj, "landcover", g->landcover != NULL);
+    cJSON_AddBoolToObject(gj, "elevation", g->elevation != NULL);
+    cJSON_AddBoolToObject(gj, "barriers", g->barrier != NULL);
+    if (in->roads != NULL) {
+        const roads_t *rd = in->roads;
+        cJSON *rj = cJSON_AddObjectToObject(r, "roads"), *cls;
+        cJSON_AddStringToObject(rj, "path", in->scen->roads.path);
+        cJSON_AddNumberToObject(rj, "features_read", (double)rd->n_features_read);
+        cJSON_AddNumberToObject(rj, "features", (double)rd->n_features);
+        cJSON_AddNumberToObject(rj, "features_clipped", (double)rd->n_features_clipped);
+        cJSON_AddNumberToObject(rj, "features_skipped", (double)rd->n_features_skipped);
+        cJSON_AddNumberToObject(rj, "length_km", rd->total_length_m / 1000.0);
+        cJSON_AddNumberToObject(rj, "nodes", (double)rd->n_nodes);
+        cJSON_AddNumberToObject(rj, "segments", (double)rd->n_segs);
+        cJSON_AddNumberToObject(rj, "junctions", (double)rd->n_junctions);
+        cJSON_AddNumberToObject(rj, "components", (double)in->road_components);
+        cJSON_AddNumberToObject(rj, "largest_component_nodes", (double)in->road_largest);
+        cls = cJSON_AddArrayToObject(rj, "classes");
+        for (size_t i = 0; i < rd->n_classes; i++) {
+            const road_class_count_t *c = &rd->classes[i];
+            cJSON *cj = cJSON_CreateObject();
+            cJSON_AddStringToObject(cj, "class", c->name);
+            cJSON_AddNumberToObject(cj, "features", (double)c->n_features);
+            cJSON_AddNumberToObject(cj, "length_km", c->length_m / 1000.0);
+            cJSON_AddNumberToObject(cj, "walk_kmh", c->walk_mps * 3.6);
+            cJSON_AddNumberToObject(cj, "vehicle_kmh", c->vehicle_mps * 3.6);
+            cJSON_AddBoolToObject(cj, "known", c->known);
+            cJSON_AddItemToArray(cls, cj);
+        }
+    }
+    pts = cJSON_AddArrayToObject(r, "points");
+    if (in->existing) cJSON_AddItemToArray(pts, points_json(in, in->existing, "existing sites"));
+    if (in->candidates) cJSON_AddItemToArray(pts, points_json(in, in->candidates, "candidate sites"));
+    if (in->depots) cJSON_AddItemToArray(pts, points_json(in, in->depots, "depots"));
+    w = cJSON_AddArrayToObject(r, "warnings");
+    for (size_t i = 0; i < in->warnings.n; i++)
+        cJSON_AddItemToArray(w, cJSON_CreateString(in->warnings.items[i]));
+    *out = r;
+    return ERR_OK;
+}
