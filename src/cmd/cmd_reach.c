@@ -77,6 +77,7 @@ int cmd_reach(const cli_options_t *o, err_t *e)
         if (text != NULL) puts(text);
         cJSON_free(text);
     } else if (!o->quiet) {
+        for (size_t i = 0; i < in->warnings.n; i++) printf("warning: %s\n", in->warnings.items[i]);
         reach_print(in, in->existing, d, &res);
         printf("outputs in %s\n%s\n", o->outdir, summary_caution_text);
     }

@@ -68,7 +68,7 @@ int reach_run(const inputs_t *in, network_t *net, const points_t *sites,
     travel_result_t *tr = NULL;
     int64_t *nodes = NULL;
     progress_t pr;
-    double reached_people = 0;
+    size_t reached_cells = 0;
     int rc = ERR_OK;
 
     memset(res, 0, sizeof *res);
@@ -101,10 +101,12 @@ int reach_run(const inputs_t *in, network_t *net, const points_t *sites,
     for (size_t c = 0; c < res->n_cells; c++) {
         res->time_s[c] = tr->time_s[c];
         res->site[c] = tr->site[c];
-        if (isfinite(tr->time_s[c])) reached_people += g->people[c];
+        if (isfinite(tr->time_s[c]) && tr->time_s[c] > 0) reached_cells++;
         if (tr->time_s[c] <= in->scen->limit_s) res->people_within_limit += g->people[c];
     }
-    if (g->total_people > 0 && reached_people == 0) {
+    /* Every site cut off (barriers, impassable land cover): nothing beyond the
+     * sites' own cells is reachable. */
+    if (reached_cells == 0 && res->n_cells > sites->n) {
         rc = err_set(e, ERR_INPUT, "none of the %zu sites in '%s' can be reached by anyone: check barriers, land-cover factors and site positions",
                      sites->n, in->scen->existing.path ? in->scen->existing.path : "sites");
         goto done;

@@ -135,3 +135,23 @@ scenario("syntax.json", text='{\n  "name": "x",\n  "inputs": {\n    "population"
 scenario("roads_points.json", setp("inputs", "roads", "path", value="roads_points.geojson"))
 scenario("point_outside.json", setp("sites", "existing", value={"path": "sites_outside.geojson", "id_field": "id"}))
 scenario("empty_roads.json", setp("inputs", "roads", "path", value="empty_roads.geojson"))
+
+# Barriers: a ring around each site's cell cuts both sites off from everyone;
+# a barrier on S1's own cell makes the site layer invalid.
+ring = [0] * (N * N)
+for (c0, r0) in ((2, 2), (17, 17)):
+    for dc in (-1, 0, 1):
+        for dr in (-1, 0, 1):
+            if dc or dr:
+                ring[(r0 + dr) * N + (c0 + dc)] = 1
+raster("ring.tif", ring, dtype=gdal.GDT_Byte)
+on_site = [0] * (N * N)
+on_site[2 * N + 2] = 1
+raster("on_site.tif", on_site, dtype=gdal.GDT_Byte)
+raster("empty_pop.tif", [0.0] * (N * N))
+scenario("cut_off.json", setp("inputs", "barriers", value="ring.tif"))
+scenario("site_on_barrier.json", setp("inputs", "barriers", value="on_site.tif"))
+scenario("no_people.json", setp("inputs", "population", value="empty_pop.tif"))
+scenario("zero_speed.json", setp("travel", "road_speeds",
+                                 value={"primary": {"walk_kmh": 0, "vehicle_kmh": 60}}))
+scenario("no_sites.json", lambda s: s.pop("sites"))
