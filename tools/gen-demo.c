@@ -79,6 +79,7 @@ typedef struct edge {
     int bridge, oneway, paved;
     pt_t v[MAX_VERTS];         /* polyline, v[0] = node a, v[nv-1] = node b */
     int nv;
+    double length;             /* cells; set before homesteads are placed */
 } edge_t;
 
 typedef struct village {
@@ -602,7 +603,7 @@ static int place_villages(demo_t *d, err_t *e)
         if (near) continue;
         village_t *v = &d->vill[d->n_vill];
         v->at = p;
-        v->sigma = rng_range(g, 2.0, 3.2);
+        v->sigma = rng_range(g, 2.4, 3.4);
         v->people = 0;        /* set once the district total is known */
         make_name(d, v->name);
         if ((v->node = add_node(d, p, d->n_vill, e)) < 0) return e->code;
@@ -817,16 +818,27 @@ static void populate(demo_t *d)
     for (int i = 0; i < d->n_vill; i++)
         settle(d, d->vill[i].at, d->vill[i].sigma, d->vill[i].people);
 
+    double road_len = 0;   /* cells */
+    for (int j = 0; j < d->n_edges; j++) {
+        edge_t *x = &d->edges[j];
+        x->length = 0;
+        for (int k = 0; k + 1 < x->nv; k++) x->length += dist(x->v[k], x->v[k + 1]);
+        road_len += x->length;
+    }
     double left = total - d->town_people;
     for (int i = 0; i < d->n_vill; i++) left -= d->vill[i].people;
     while (left > 0) {
         double hh = fmin(left, (double)rng_int(g, 3, 9));
         pt_t p;
         for (;;) {
-            if (rng_unif(g) < 0.6 && d->n_edges > 0) {   /* along a road */
-                const edge_t *x = &d->edges[rng_int(g, 0, d->n_edges - 1)];
-                int s = rng_int(g, 0, x->nv - 2);
-                double t = rng_unif(g);
+            if (rng_unif(g) < 0.6 && road_len > 0) {   /* along a road, uniform by length */
+                double at = rng_unif(g) * road_len;
+                int j = 0, s = 0;
+                while (j + 1 < d->n_edges && at > d->edges[j].length) at -= d->edges[j++].length;
+                const edge_t *x = &d->edges[j];
+                while (s + 2 < x->nv && at > dist(x->v[s], x->v[s + 1]))
+                    at -= dist(x->v[s], x->v[s + 1]), s++;
+                double t = fmin(at / fmax(dist(x->v[s], x->v[s + 1]), 1e-9), 1.0);
                 p = (pt_t){x->v[s].c + (x->v[s + 1].c - x->v[s].c) * t + 3 * rng_normal(g),
                            x->v[s].r + (x->v[s + 1].r - x->v[s].r) * t + 3 * rng_normal(g)};
             } else {
@@ -868,16 +880,20 @@ static void shape_terrain(demo_t *d)
     for (int r = 0; r < NY; r++)
         for (int c = 0; c < NX; c++) {
             double rc = river_col(d, r + 0.5), dv = fabs(c + 0.5 - rc);
-            double z = 1240.0 - 0.15 * r + 1.8 * fmin(dv, 90) + 12 * noise(d, c, r, 40, 3);
+            /* Hills and roughness fade out over 20 cells towards the river, so
+             * the valley floor falls steadily downstream and the banks are gentle. */
+            double f = fmin(dv / 20.0, 1.0), relief = 12 * noise(d, c, r, 40, 3);
             for (int k = 0; k < nh; k++) {
                 double dc = c + 0.5 - hill[k].c, dr = r + 0.5 - hill[k].r;
-                z += hh[k] * exp(-(dc * dc + dr * dr) / (2 * hs[k] * hs[k]));
+                relief += hh[k] * exp(-(dc * dc + dr * dr) / (2 * hs[k] * hs[k]));
             }
+            double z = 1240.0 - 0.15 * r + 1.8 * fmin(dv, 90) + relief * f * f * (3 - 2 * f);
             size_t i = (size_t)r * NX + c;
-            if (d->bar[i] && lake_q(d, c + 0.5, r + 0.5) >= 1.0) z = 1240.0 - 0.15 * r - 2;
+            if (d->bar[i] && lake_q(d, c + 0.5, r + 0.5) >= 1.0) z = 1240.0 - 0.15 * r - 1;
             d->elev[i] = (float)z;
         }
-    /* The lake is flat: its surface sits at the lowest shore cell. */
+    /* The lake is flat, 1 m below its lowest shore cell, and sits in a basin:
+     * the ground within 1.5 lake radii of the shore is eased down towards it. */
     double lo = 1e9;
     for (int r = 0; r < NY; r++)
         for (int c = 0; c < NX; c++) {
@@ -885,8 +901,12 @@ static void shape_terrain(demo_t *d)
             if (q >= 1.0 && q < 1.2) lo = fmin(lo, d->elev[(size_t)r * NX + c]);
         }
     for (int r = 0; r < NY; r++)
-        for (int c = 0; c < NX; c++)
-            if (lake_q(d, c + 0.5, r + 0.5) < 1.0) d->elev[(size_t)r * NX + c] = (float)(lo - 1);
+        for (int c = 0; c < NX; c++) {
+            double q = lake_q(d, c + 0.5, r + 0.5), w = (q - 1.0) / 1.5;
+            float *z = &d->elev[(size_t)r * NX + c];
+            if (q < 1.0) *z = (float)(lo - 1);
+            else if (w < 1.0) *z = (float)(lo + (*z - lo) * w * w * (3 - 2 * w));
+        }
 }
 
 static void classify_land(demo_t *d)
@@ -909,7 +929,7 @@ static void classify_land(demo_t *d)
             if (d->bar[i]) v = LC_WATER;
             else if (built) v = LC_BUILT;
             else if ((lq < 1.5 || dv < 6) && noise(d, c, r, 12, 1) > 0.42) v = LC_WETLAND;
-            else if (noise(d, c, r, 30, 2) + rise / 300.0 > 0.78 && nearest > 6) v = LC_FOREST;
+            else if (noise(d, c, r, 30, 2) + rise / 300.0 > 0.82 && nearest > 6) v = LC_FOREST;
             else if (nearest < 14 || noise(d, c, r, 30, 2) < 0.3) v = LC_CROP;
             else v = LC_GRASS;
             d->lc[i] = v;
@@ -1268,12 +1288,13 @@ static int write_districts(const demo_t *d, const char *path, OGRSpatialReferenc
         OGRGeometryH ring = OGR_G_CreateGeometry(wkbLinearRing);
         pt_t p;
         double gx, gy;
-        /* Down the river from r0 to r1 (rows 0, 5, 10, ... and the cut rows). */
-        for (double r = r0;; r = fmin(floor(r / 5) * 5 + 5, r1)) {
+        /* Down the river from r0 to r1, at rows 0, 5, 10, ... and both cut rows
+         * for every ward, so that neighbours share each vertex. */
+        for (int r = (int)r0; r <= (int)r1; r++) {
+            if (r % 5 != 0 && r != (int)cut_e && r != (int)cut_w) continue;
             p = (pt_t){river_col(d, r), r};
             to_crs(p, &gx, &gy);
             OGR_G_AddPoint_2D(ring, gx, gy);
-            if (r >= r1) break;
         }
         to_crs((pt_t){edge_c, r1}, &gx, &gy);
         OGR_G_AddPoint_2D(ring, gx, gy);
