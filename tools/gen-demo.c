@@ -1531,8 +1531,8 @@ done:
         free(d);
     }
     if (rc != ERR_OK) {
-        fprintf(stderr, "%s\n", e.msg);
-        if (rc == ERR_USAGE) usage(stderr);
+        /* One line, always; usage errors point at --help. */
+        fprintf(stderr, "%s%s\n", e.msg, rc == ERR_USAGE ? " (see gen-demo --help)" : "");
         return err_exit_status(rc);
     }
     return EXIT_OK;
