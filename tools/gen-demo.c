@@ -529,7 +529,7 @@ static int join_bank(demo_t *d, int bank, int anchor, err_t *e)
             linked = (d->edges[j].a == a && d->edges[j].b == b) ||
                      (d->edges[j].a == b && d->edges[j].b == a);
         if (linked || rng_unif(&d->rng) < 0.2) continue;
-        int cls = ce[k].len < 35 ? C_PATH : (extra % 2 ? C_TRACK : C_UNCLASSIFIED);
+        int cls = ce[k].len < 50 ? C_PATH : (extra % 2 ? C_TRACK : C_UNCLASSIFIED);
         if ((rc = try_road(d, a, b, cls, 3.0, &kept, e)) != ERR_OK) goto done;
         extra += kept;
     }
