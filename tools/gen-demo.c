@@ -130,8 +130,8 @@ typedef struct demo {
     site_t hp[16], cand[MAX_SITES], dep[2];
     int n_hp, n_cand;
     char ward[4][NAME_LEN];
-    char names[64][NAME_LEN];  /* every generated name, to keep them unique */
-    int n_names;
+    int name_order[64];        /* shuffled indices into name_pool */
+    int n_names;               /* names dealt so far */
     double total_people;
 } demo_t;
 
@@ -198,32 +198,35 @@ static double noise(const demo_t *d, double c, double r, double scale, int layer
     return sum / wsum;
 }
 
-/* ---- names: syllables of our own, unique within the district ---------------- */
+/* ---- names: made up for this district and checked against no real place we
+ * know of; the seed shuffles them, so every village keeps a name of its own. -- */
 
-static const char *const syl_a[] = {"ka", "ve", "lo", "mi", "ra", "tu", "se", "o", "da", "fe",
-                                    "ga", "ho", "ju", "ko", "le", "na", "pa", "ru", "sa",
-                                    "te", "u", "vo", "ya", "ze", "bi", "mo"};
-static const char *const syl_b[] = {"ren", "lo", "mbe", "sa", "thi", "ku", "vel", "dori", "na",
-                                    "wa", "ssi", "ra", "mpo", "len", "ti", "gar", "zu", "ndo"};
-static const char *const syl_c[] = {"", "", "", "ne", "ro", "li", "m", "sh", "ka", "ta"};
+static const char *const name_pool[] = {
+    "Velumbra", "Kasorind", "Ishvenna", "Morudai", "Pelkatho", "Savirune", "Oskelim",
+    "Quorasel", "Bantaveru", "Dulmavik", "Ferrogan", "Ilvaskor", "Nembraith", "Zovanti",
+    "Cartomeh", "Yulvessa", "Grenmaro", "Lothkapi", "Murivale", "Toravinde", "Wennaspo",
+    "Ubalorin", "Kelvathu", "Pradilmo", "Vintessoh", "Ombrakel", "Jaskerru", "Halvonti",
+    "Rennimbo", "Tasquileh", "Brovannik", "Ciluvamba", "Dravossin", "Norvessa", "Caldurim",
+    "Sepharond", "Lintavo", "Kettrasso", "Mavrolin", "Eshumbri", "Gorvendal", "Piravoste"};
 
 #define N_OF(a) ((int)(sizeof(a) / sizeof((a)[0])))
 
+/* Deal the pool in a seeded order (Fisher-Yates); called once, first. */
+static void shuffle_names(demo_t *d)
+{
+    for (int i = 0; i < N_OF(name_pool); i++) d->name_order[i] = i;
+    for (int i = N_OF(name_pool) - 1; i > 0; i--) {
+        int j = rng_int(&d->rng, 0, i), t = d->name_order[i];
+        d->name_order[i] = d->name_order[j];
+        d->name_order[j] = t;
+    }
+}
+
+/* The next unused name. The pool holds more names than the most villages,
+ * wards and depots a district can have (28 + 4 + 2), so it never runs dry. */
 static void make_name(demo_t *d, char *out)
 {
-    for (;;) {
-        snprintf(out, NAME_LEN, "%s%s%s", syl_a[rng_int(&d->rng, 0, N_OF(syl_a) - 1)],
-                 syl_b[rng_int(&d->rng, 0, N_OF(syl_b) - 1)],
-                 syl_c[rng_int(&d->rng, 0, N_OF(syl_c) - 1)]);
-        out[0] = (char)(out[0] - 'a' + 'A');
-        int dup = strcmp(out, TOWN_NAME) == 0;
-        for (int i = 0; i < d->n_names && !dup; i++)
-            dup = strcmp(d->names[i], out) == 0;
-        if (!dup && d->n_names < N_OF(d->names)) {
-            snprintf(d->names[d->n_names++], NAME_LEN, "%s", out);
-            return;
-        }
-    }
+    snprintf(out, NAME_LEN, "%s", name_pool[d->name_order[d->n_names++ % N_OF(name_pool)]]);
 }
 
 /* ---- geography --------------------------------------------------------------- */
@@ -1050,6 +1053,7 @@ static int place_sites(demo_t *d, err_t *e)
 static int build(demo_t *d, err_t *e)
 {
     int rc;
+    shuffle_names(d);
     if (!place_town_and_river(d))
         return err_set(e, ERR_INTERNAL, "gen-demo: seed %llu: no room for the lake; try "
                        "another seed", (unsigned long long)d->seed);
