@@ -92,7 +92,7 @@ typedef struct village {
 
 typedef struct site {
     pt_t at;
-    char id[12];
+    char id[16];
     char name[NAME_LEN + 24];
     int capacity;              /* persons */
     double cost;               /* fixed opening cost, planning units */
@@ -972,7 +972,9 @@ static int place_sites(demo_t *d, err_t *e)
         } else {
             const village_t *v = &d->vill[order[k - 1]];
             s->at = (pt_t){v->at.c + 0.7, v->at.r - 0.6};
-            snprintf(s->name, sizeof s->name, "%s Health Post", v->name);
+            char place[NAME_LEN];   /* a copy: snprintf may not read from 'd' while writing it */
+            memcpy(place, v->name, sizeof place);
+            snprintf(s->name, sizeof s->name, "%s Health Post", place);
             s->capacity = 1000 * rng_int(g, 8, 15);
         }
         s->cost = 0;
@@ -1012,7 +1014,9 @@ static int place_sites(demo_t *d, err_t *e)
                 if (taken) break;
                 site_t *s = &d->cand[d->n_cand++];
                 s->at = p;
-                snprintf(s->name, sizeof s->name, "%s site %d", d->vill[i].name, per[i]);
+                char place[NAME_LEN];
+                memcpy(place, d->vill[i].name, sizeof place);
+                snprintf(s->name, sizeof s->name, "%s site %d", place, per[i]);
                 break;
             }
         }
