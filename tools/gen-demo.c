@@ -297,10 +297,12 @@ static pt_t bridge_end(const demo_t *d, double r, int bank)
 
 /* ---- road network ------------------------------------------------------------- */
 
+/* A new road node at p ('village' = its village index or -1). Returns the
+ * node's index, or -1 with 'e' filled when the table is full. */
 static int add_node(demo_t *d, pt_t p, int village, err_t *e)
 {
     if (d->n_nodes >= MAX_NODES)
-        return -err_set(e, ERR_INTERNAL, "gen-demo: more than %d road nodes", MAX_NODES);
+        return err_set(e, ERR_INTERNAL, "gen-demo: more than %d road nodes", MAX_NODES), -1;
     node_t *n = &d->nodes[d->n_nodes];
     n->p = p;
     n->bank = bank_of(d, p);
@@ -406,7 +408,8 @@ static int push_edge(demo_t *d, const edge_t *x, int cls, err_t *e)
     return ERR_OK;
 }
 
-/* Try a few shapes for a road between two nodes; returns 1 when one was kept. */
+/* Try a few shapes for a road between two nodes; *kept says whether one fitted.
+ * Returns an error only when the feature table is full. */
 static int try_road(demo_t *d, int a, int b, int cls, double gap, int *kept, err_t *e)
 {
     edge_t x;
@@ -451,9 +454,10 @@ static void uf_join(demo_t *d, int a, int b)
     d->nodes[uf_find(d, a)].comp = uf_find(d, b);
 }
 
-/* A chain of primary-road nodes from 'from' to 'to' on the east or west bank,
- * kept at least 'keep' cells from the river; one feature per link, so side
- * roads can join at every spine node. Returns the node after 'from'. */
+/* A chain of 'links' primary-road features from node 'from' to node 'to' on
+ * one bank; inner nodes stay at least 10 cells from the river and clear of the
+ * lake. One feature per link, so side roads can join at every spine node.
+ * Sets *first to the node after 'from'. */
 static int lay_spine(demo_t *d, int from, int to, int links, int *first, err_t *e)
 {
     pt_t pa = d->nodes[from].p, pb = d->nodes[to].p;
@@ -467,9 +471,9 @@ static int lay_spine(demo_t *d, int from, int to, int links, int *first, err_t *
             double t = (double)k / links;
             pt_t p = {pa.c + (pb.c - pa.c) * t + rng_range(&d->rng, -5, 5),
                       pa.r + (pb.r - pa.r) * t + rng_range(&d->rng, -3, 3)};
-            double rc_ = river_col(d, p.r);
-            if (bank > 0 && p.c < rc_ + 10) p.c = rc_ + 10;
-            if (bank < 0 && p.c > rc_ - 10) p.c = rc_ - 10;
+            double rcol = river_col(d, p.r);
+            if (bank > 0 && p.c < rcol + 10) p.c = rcol + 10;
+            if (bank < 0 && p.c > rcol - 10) p.c = rcol - 10;
             if (lake_q(d, p.c, p.r) < 1.8) p.r += (p.r < d->lake.r ? -1 : 1) * 2.5 * d->lake_b;
             nd = add_node(d, p, -1, e);
             if (nd < 0) return e->code;
