@@ -21,6 +21,8 @@ typedef struct inputs {
     points_t *depots;        /* NULL when not given */
     size_t road_components;  /* connected components of the road network */
     size_t road_largest;     /* nodes in the largest one */
+    size_t road_islands;     /* components other than the largest */
+    double island_people;    /* people in cells that only island roads pass through */
     warn_list_t warnings;
     double seconds;          /* time spent loading */
 } inputs_t;

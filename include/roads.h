@@ -76,7 +76,9 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
 void roads_free(roads_t *r);  /* NULL-safe */
 
 /* Connected components of the road network (undirected, igraph). Sets *n_comp and,
- * if 'largest' is not NULL, the node count of the largest component. */
-int roads_components(const roads_t *r, size_t *n_comp, size_t *largest, err_t *e);
+ * if 'largest' is not NULL, the node count of the largest component; if
+ * 'membership' is not NULL (n_nodes entries) the component of every node. */
+int roads_components(const roads_t *r, size_t *n_comp, size_t *largest, int32_t *membership,
+                     err_t *e);
 
 #endif

@@ -207,7 +207,7 @@ static void test_cross(void)
         /* GeoJSON without an id field named: FIDs, which GDAL numbers from 0. */
         CHECK_STR_HAS(r->feature_ids[0], "0");
         CHECK(w.n == 0);
-        CHECK(roads_components(r, &nc, &big, &e) == ERR_OK);
+        CHECK(roads_components(r, &nc, &big, NULL, &e) == ERR_OK);
         CHECK(nc == 1 && big == 5);
     }
     roads_free(r);
@@ -268,7 +268,7 @@ static void test_bridge(void)
         CHECK(r->n_nodes == 6);
         CHECK(r->segs[2].flags == ROAD_BRIDGE && r->segs[3].flags == ROAD_BRIDGE);
         CHECK(r->segs[0].flags == 0);
-        CHECK(roads_components(r, &nc, &big, &e) == ERR_OK);
+        CHECK(roads_components(r, &nc, &big, NULL, &e) == ERR_OK);
         CHECK(nc == 2 && big == 3);
     }
     roads_free(r);
@@ -280,7 +280,7 @@ static void test_bridge(void)
     if (r != NULL) {
         CHECK(r->n_junctions == 1);
         CHECK(r->n_nodes == 5);
-        CHECK(roads_components(r, &nc, &big, &e) == ERR_OK);
+        CHECK(roads_components(r, &nc, &big, NULL, &e) == ERR_OK);
         CHECK(nc == 1 && big == 5);
     }
     roads_free(r);
@@ -588,7 +588,7 @@ static void test_empty_and_errors(void)
     CHECK(warn_has(&w, "road layer 'roads' is empty; travel is walking only"));
     if (r) {
         size_t nc = 7, big = 7;
-        CHECK(roads_components(r, &nc, &big, &e) == ERR_OK && nc == 0 && big == 0);
+        CHECK(roads_components(r, &nc, &big, NULL, &e) == ERR_OK && nc == 0 && big == 0);
     }
     roads_free(r);
     warn_destroy(&w);
@@ -755,7 +755,7 @@ static void test_liechtenstein(void)
         CHECK_REL(r->total_length_m, 967e3, 0.01);
         /* feature ids are OSM ids. */
         CHECK(strtoll(r->feature_ids[0], NULL, 10) > 0);
-        CHECK(roads_components(r, &nc, &big, &e) == ERR_OK);
+        CHECK(roads_components(r, &nc, &big, NULL, &e) == ERR_OK);
         CHECK(nc >= 1 && big > r->n_nodes / 2);
     }
     roads_free(r);

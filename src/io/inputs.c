@@ -14,6 +14,53 @@ static int load_points(const scen_layer_t *l, const char *what, const grid_t *g,
     return points_load(l, what, g, out, e);
 }
 
+/* Road components apart from the largest are islands: the people in the cells
+ * they pass through are reported, since their roads lead nowhere else. */
+static int road_islands(inputs_t *in, err_t *e)
+{
+    const roads_t *r = in->roads;
+    const grid_t *g = in->grid;
+    int32_t *memb = malloc((r->n_nodes ? r->n_nodes : 1) * sizeof *memb);
+    size_t *size = NULL, big = 0;
+    unsigned char *seen = NULL;
+    int rc;
+
+    if (memb == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    rc = roads_components(r, &in->road_components, &in->road_largest, memb, e);
+    if (rc != ERR_OK || in->road_components < 2) goto done;
+    size = calloc(in->road_components, sizeof *size);
+    seen = calloc((size_t)g->nx * (size_t)g->ny, 1);
+    if (size == NULL || seen == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    for (size_t i = 0; i < r->n_nodes; i++) size[memb[i]]++;
+    for (size_t c = 1; c < in->road_components; c++)
+        if (size[c] > size[big]) big = c;
+    in->road_islands = in->road_components - 1;
+    for (size_t i = 0; i < r->n_nodes; i++) {
+        int col, row;
+        if ((size_t)memb[i] == big || !grid_locate(g, r->x[i], r->y[i], &col, &row)) continue;
+        seen[(size_t)row * g->nx + col] = 1;
+    }
+    /* A cell the main network also passes through is not cut off. */
+    for (size_t i = 0; i < r->n_nodes; i++) {
+        int col, row;
+        if ((size_t)memb[i] != big || !grid_locate(g, r->x[i], r->y[i], &col, &row)) continue;
+        seen[(size_t)row * g->nx + col] = 0;
+    }
+    for (size_t c = 0; c < (size_t)g->nx * (size_t)g->ny; c++)
+        if (seen[c]) in->island_people += g->people[c];
+    warn_add(&in->warnings,
+             "%zu road islands are not joined to the main road network; %.0f people live in cells holding only their nodes",
+             in->road_islands, in->island_people);
+done:
+    free(memb);
+    free(size);
+    free(seen);
+    return rc;
+}
+
 int inputs_load(const char *scenario_path, int quiet, inputs_t **out, err_t *e)
 {
     inputs_t *in = calloc(1, sizeof *in);
@@ -59,7 +106,7 @@ int inputs_load(const char *scenario_path, int quiet, inputs_t **out, err_t *e)
         rc = roads_load(in->scen, in->grid, &in->roads, &in->warnings, e);
         progress_end(&pr);
         if (rc != ERR_OK) goto done;
-        rc = roads_components(in->roads, &in->road_components, &in->road_largest, e);
+        rc = road_islands(in, e);
         if (rc != ERR_OK) goto done;
     }
     rc = load_points(&in->scen->existing, "existing sites", in->grid, &in->existing, e);
@@ -165,6 +212,8 @@ int inputs_report(const inputs_t *in, cJSON **out, err_t *e)
         cJSON_AddNumberToObject(rj, "junctions", (double)rd->n_junctions);
         cJSON_AddNumberToObject(rj, "components", (double)in->road_components);
         cJSON_AddNumberToObject(rj, "largest_component_nodes", (double)in->road_largest);
+        cJSON_AddNumberToObject(rj, "islands", (double)in->road_islands);
+        cJSON_AddNumberToObject(rj, "island_people", in->island_people);
         cls = cJSON_AddArrayToObject(rj, "classes");
         for (size_t i = 0; i < rd->n_classes; i++) {
             const road_class_count_t *c = &rd->classes[i];

@@ -751,12 +751,13 @@ done:
     return rc;
 }
 
-int roads_components(const roads_t *r, size_t *n_comp, size_t *largest, err_t *e)
+int roads_components(const roads_t *r, size_t *n_comp, size_t *largest, int32_t *membership,
+                     err_t *e)
 {
     igraph_t gr;
-    igraph_vector_int_t edges, csize;
+    igraph_vector_int_t edges, csize, memb;
     igraph_integer_t no = 0;
-    int have_g = 0, have_e = 0, have_c = 0, rc = ERR_OK;
+    int have_g = 0, have_e = 0, have_c = 0, have_m = 0, rc = ERR_OK;
     igraph_error_t ie;
 
     *n_comp = 0;
@@ -784,12 +785,19 @@ int roads_components(const roads_t *r, size_t *n_comp, size_t *largest, err_t *e
         goto done;
     }
     have_c = 1;
-    if ((ie = igraph_connected_components(&gr, NULL, &csize, &no, IGRAPH_WEAK)) !=
+    if ((ie = igraph_vector_int_init(&memb, 0)) != IGRAPH_SUCCESS) {
+        rc = err_set(e, ERR_GRAPH, "road components: %s", igraph_strerror(ie));
+        goto done;
+    }
+    have_m = 1;
+    if ((ie = igraph_connected_components(&gr, &memb, &csize, &no, IGRAPH_WEAK)) !=
         IGRAPH_SUCCESS) {
         rc = err_set(e, ERR_GRAPH, "road components: %s", igraph_strerror(ie));
         goto done;
     }
     *n_comp = (size_t)no;
+    if (membership != NULL)
+        for (size_t i = 0; i < r->n_nodes; i++) membership[i] = (int32_t)VECTOR(memb)[i];
     if (largest != NULL) {
         igraph_integer_t mx = 0;
         for (igraph_integer_t i = 0; i < igraph_vector_int_size(&csize); i++)
@@ -797,6 +805,7 @@ int roads_components(const roads_t *r, size_t *n_comp, size_t *largest, err_t *e
         *largest = (size_t)mx;
     }
 done:
+    if (have_m) igraph_vector_int_destroy(&memb);
     if (have_c) igraph_vector_int_destroy(&csize);
     if (have_g) igraph_destroy(&gr);
     if (have_e) igraph_vector_int_destroy(&edges);

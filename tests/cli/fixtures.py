@@ -155,3 +155,14 @@ scenario("no_people.json", setp("inputs", "population", value="empty_pop.tif"))
 scenario("zero_speed.json", setp("travel", "road_speeds",
                                  value={"primary": {"walk_kmh": 0, "vehicle_kmh": 60}}))
 scenario("no_sites.json", lambda s: s.pop("sites"))
+
+# A road island: a short road with three vertices in cells (1..3, 15), away from
+# the main road on row 10 (given five vertices so it is the larger network):
+# 3 cells x 10 people = 30 people reported.
+yi = Y0 - 15.5 * CELL
+main = ", ".join("%f %f" % (X0 + 50 + 475 * k, ymid) for k in range(5))
+layer("roads_island.geojson", ogr.wkbLineString,
+      [("LINESTRING (%s)" % main, {"highway": "primary"}),
+       ("LINESTRING (%f %f, %f %f, %f %f)" % (X0 + 150, yi, X0 + 250, yi, X0 + 350, yi),
+        {"highway": "track"})], fields=("highway",))
+scenario("island.json", setp("inputs", "roads", "path", value="roads_island.geojson"))
