@@ -27,7 +27,7 @@ static void print_points(const cJSON *pts)
 {
     const cJSON *p;
     cJSON_ArrayForEach(p, pts) {
-        printf("  %-22s %5d points, farthest %.0f m from a road node\n",
+        printf("  %-22s %5d points, farthest %.0f m from a road\n",
                cJSON_GetObjectItem(p, "layer")->valuestring,
                cJSON_GetObjectItem(p, "count")->valueint,
                cJSON_GetObjectItem(p, "max_road_distance_m")->valuedouble);

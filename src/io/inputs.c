@@ -135,24 +135,34 @@ void inputs_free(inputs_t *in)
     free(in);
 }
 
-/* Distance from (x, y) to the nearest road node, metres (planar in the grid
- * CRS, or geodesic when the grid is lon/lat). INFINITY when there are no roads. */
+/* Distance from (x, y) to the nearest road (any point of any segment), metres:
+ * planar in a projected grid; for a lon/lat grid the closest point is found
+ * with longitudes scaled by cos(latitude) and the distance measured on the
+ * ellipsoid. INFINITY when there are no roads. */
 static double nearest_road_m(const inputs_t *in, double x, double y)
 {
     const roads_t *r = in->roads;
-    double best = INFINITY;
-    size_t bi = 0;
+    double best = INFINITY, bx = x, by = y;
+    double k = in->grid->geographic ? cos(y * M_PI / 180.0) : 1.0;
 
-    if (r == NULL || r->n_nodes == 0) return INFINITY;
-    for (size_t i = 0; i < r->n_nodes; i++) {
-        double dx = r->x[i] - x, dy = r->y[i] - y;
-        if (in->grid->geographic) dx *= cos(y * M_PI / 180.0);
-        if (dx * dx + dy * dy < best) {
-            best = dx * dx + dy * dy;
-            bi = i;
+    if (r == NULL || r->n_segs == 0) return INFINITY;
+    for (size_t i = 0; i < r->n_segs; i++) {
+        double ax = r->x[r->segs[i].a], ay = r->y[r->segs[i].a];
+        double cx = r->x[r->segs[i].b], cy = r->y[r->segs[i].b];
+        double ux = (cx - ax) * k, uy = cy - ay, px = (x - ax) * k, py = y - ay;
+        double len2 = ux * ux + uy * uy, t = len2 > 0 ? (px * ux + py * uy) / len2 : 0;
+        double qx, qy, d2;
+        t = t < 0 ? 0 : t > 1 ? 1 : t;
+        qx = ux * t - px;
+        qy = uy * t - py;
+        d2 = qx * qx + qy * qy;
+        if (d2 < best) {
+            best = d2;
+            bx = ax + (cx - ax) * t;
+            by = ay + (cy - ay) * t;
         }
     }
-    if (in->grid->geographic) return grid_geodesic_m(x, y, r->x[bi], r->y[bi]);
+    if (in->grid->geographic) return grid_geodesic_m(x, y, bx, by);
     return sqrt(best);
 }
 
