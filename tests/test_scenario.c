@@ -404,6 +404,10 @@ static void test_refusals(void)
     refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"travel\": {\"landcover_factors\": "
            "{\"10\": 0.5, \"10\": 1}}}", ERR_INPUT,
            "duplicate key 'travel.landcover_factors.10'");
+    /* Class names that are not plain words are quoted in the path. */
+    refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"travel\": {\"road_speeds\": "
+           "{\"gravel road\": {\"walk_kmh\": 0, \"vehicle_kmh\": 10}}}}", ERR_INPUT,
+           "key 'travel.road_speeds[\"gravel road\"].walk_kmh' must be a number in (0, 20]");
     refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"travel\": {\"road_speeds\": {}}}",
            ERR_INPUT, "key 'travel.road_speeds' must list at least one road class");
     refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"travel\": {\"road_speeds\": "

@@ -199,6 +199,8 @@ static size_t bom_len(const char *s)
     return strncmp(s, "\xEF\xBB\xBF", 3) == 0 ? 3 : 0; /* strncmp: s may be shorter */
 }
 
+/* Line and column of byte 'offset' in 'text', both from 1; a leading byte
+ * order mark is skipped and columns count UTF-8 characters, as editors do. */
 void jsonv_line_col(const char *text, size_t offset, int *line, int *col)
 {
     int ln = 1, cl = 1;
@@ -216,7 +218,9 @@ void jsonv_line_col(const char *text, size_t offset, int *line, int *col)
     *col = cl;
 }
 
-/* Parse strictly; see the header. */
+/* Parse 'text' strictly: our syntax check first (exact position and reason
+ * of the first error), then cJSON builds the tree; caller frees *out with
+ * cJSON_Delete. */
 int jsonv_parse(const char *text, const char *file, cJSON **out, err_t *e)
 {
     lex_t l = {text, 0, 0, 0, NULL};
@@ -268,9 +272,12 @@ static int plain_word(const char *k)
  * legitimately be cut (the message then still names the start of the path). */
 static int append(char *buf, size_t size, size_t *len, const char *src)
 {
-    size_t n = strlen(src), room = size - *len - 1;
-    int cut = n > room;
+    size_t n = strlen(src), room;
+    int cut;
 
+    if (size == 0) return 1;
+    room = size - *len - 1;
+    cut = n > room;
     if (cut) n = room;
     memcpy(buf + *len, src, n);
     *len += n;
@@ -278,6 +285,8 @@ static int append(char *buf, size_t size, size_t *len, const char *src)
     return cut;
 }
 
+/* "prefix.key" into buf, or prefix["key"] when the key is not a plain word
+ * (so a key with dots cannot be mistaken for nesting); 1 when cut short. */
 int jsonv_path(char *buf, size_t size, const char *prefix, const char *key)
 {
     size_t len = 0;
@@ -296,6 +305,7 @@ int jsonv_path(char *buf, size_t size, const char *prefix, const char *key)
     return cut;
 }
 
+/* "prefix[i]" into buf; 1 when cut short. */
 int jsonv_path_index(char *buf, size_t size, const char *prefix, size_t i)
 {
     char idx[32];
@@ -309,6 +319,7 @@ int jsonv_path_index(char *buf, size_t size, const char *prefix, size_t i)
     return cut;
 }
 
+/* Wrap the parsed document; sitereach files are objects at the top. */
 int jsonv_root(const cJSON *json, const char *file, jsonv_node_t *out, err_t *e)
 {
     out->json = json;
@@ -319,6 +330,7 @@ int jsonv_root(const cJSON *json, const char *file, jsonv_node_t *out, err_t *e)
     return ERR_OK;
 }
 
+/* obj[key] with its path; out->json is NULL when the key (or obj) is absent. */
 void jsonv_child(const jsonv_node_t *obj, const char *key, jsonv_node_t *out)
 {
     out->file = obj->file;
@@ -326,6 +338,7 @@ void jsonv_child(const jsonv_node_t *obj, const char *key, jsonv_node_t *out)
     jsonv_path(out->path, sizeof out->path, obj->path, key);
 }
 
+/* A member of an object (path by key) or element of an array (path by index). */
 void jsonv_member(const jsonv_node_t *parent, const cJSON *item, size_t i, jsonv_node_t *out)
 {
     out->file = parent->file;
@@ -396,6 +409,8 @@ static void list_names(char *buf, size_t size, const char *const *names, const c
     }
 }
 
+/* Refuse duplicate keys and keys outside 'allowed', with a did-you-mean hint
+ * or the allowed list. Quadratic in the number of keys: fine for settings. */
 int jsonv_check_keys(const jsonv_node_t *obj, const char *const *allowed, err_t *e)
 {
     char path[JSONV_PATH_MAX];
@@ -498,12 +513,14 @@ static int type_error(const jsonv_node_t *v, const char *what, err_t *e)
     return err_set(e, ERR_INPUT, "%s: key '%s' must be %s, got %s", v->file, v->path, what, got);
 }
 
+/* The value must be an object with only 'allowed' keys (NULL: any). */
 int jsonv_as_object(const jsonv_node_t *v, const char *const *allowed, err_t *e)
 {
     if (!cJSON_IsObject(v->json)) return type_error(v, "an object {...}", e);
     return jsonv_check_keys(v, allowed, e);
 }
 
+/* The value must be a finite number inside 'r'. */
 int jsonv_as_number(const jsonv_node_t *v, jsonv_range_t r, double *out, err_t *e)
 {
     char what[120];
@@ -517,6 +534,8 @@ int jsonv_as_number(const jsonv_node_t *v, jsonv_range_t r, double *out, err_t *
     return type_error(v, what, e);
 }
 
+/* The value must be a string, non-empty unless JSONV_EMPTY_OK; the copy in
+ * *out is the caller's to free. */
 int jsonv_as_string(const jsonv_node_t *v, int flags, char **out, err_t *e)
 {
     if (!cJSON_IsString(v->json)) return type_error(v, "a string", e);
@@ -529,6 +548,8 @@ int jsonv_as_string(const jsonv_node_t *v, int flags, char **out, err_t *e)
     return ERR_OK;
 }
 
+/* The member's key as a plain decimal integer in [min, max]: "10", "-3";
+ * not " 10", "+10" or "1e1". */
 int jsonv_key_int(const jsonv_node_t *member, long min, long max, long *out, err_t *e)
 {
     const char *k = member->json->string;
@@ -546,6 +567,7 @@ int jsonv_key_int(const jsonv_node_t *member, long min, long max, long *out, err
     return ERR_OK;
 }
 
+/* obj[key] as an object checked against 'allowed'; out->json NULL when absent. */
 int jsonv_object(const jsonv_node_t *obj, const char *key, int flags,
                  const char *const *allowed, jsonv_node_t *out, err_t *e)
 {
@@ -559,6 +581,7 @@ int jsonv_object(const jsonv_node_t *obj, const char *key, int flags,
     return jsonv_as_object(out, allowed, e);
 }
 
+/* obj[key] as an array of min_n..max_n elements; walk it with jsonv_member. */
 int jsonv_array(const jsonv_node_t *obj, const char *key, int flags, size_t min_n,
                 size_t max_n, jsonv_node_t *out, size_t *n, err_t *e)
 {
@@ -584,6 +607,7 @@ int jsonv_array(const jsonv_node_t *obj, const char *key, int flags, size_t min_
     return ERR_OK;
 }
 
+/* obj[key] as a number in 'r', in the file's units; 'dflt' when absent. */
 int jsonv_number(const jsonv_node_t *obj, const char *key, int flags, jsonv_range_t r,
                  double dflt, double *out, err_t *e)
 {
@@ -598,6 +622,7 @@ int jsonv_number(const jsonv_node_t *obj, const char *key, int flags, jsonv_rang
     return jsonv_as_number(&v, r, out, e);
 }
 
+/* obj[key] as an integral number in [min, max]; 'dflt' when absent. */
 int jsonv_int(const jsonv_node_t *obj, const char *key, int flags, long min, long max,
               long dflt, long *out, err_t *e)
 {
@@ -622,6 +647,7 @@ int jsonv_int(const jsonv_node_t *obj, const char *key, int flags, long min, lon
     return type_error(&v, what, e);
 }
 
+/* obj[key] as one of the n integers in 'allowed'; 'dflt' when absent. */
 int jsonv_int_choice(const jsonv_node_t *obj, const char *key, int flags, const int *allowed,
                      size_t n, int dflt, int *out, err_t *e)
 {
@@ -648,6 +674,7 @@ int jsonv_int_choice(const jsonv_node_t *obj, const char *key, int flags, const 
     return type_error(&v, what, e);
 }
 
+/* obj[key] as true (1) or false (0); 'dflt' when absent. */
 int jsonv_bool(const jsonv_node_t *obj, const char *key, int flags, int dflt, int *out,
                err_t *e)
 {
@@ -664,6 +691,8 @@ int jsonv_bool(const jsonv_node_t *obj, const char *key, int flags, int dflt, in
     return ERR_OK;
 }
 
+/* obj[key] as a new string (caller frees); a copy of 'dflt' when absent, NULL
+ * when 'dflt' is NULL or the value is null with JSONV_NULLABLE. */
 int jsonv_string(const jsonv_node_t *obj, const char *key, int flags, const char *dflt,
                  char **out, err_t *e)
 {
@@ -682,6 +711,7 @@ int jsonv_string(const jsonv_node_t *obj, const char *key, int flags, const char
     return jsonv_as_string(&v, flags, out, e);
 }
 
+/* obj[key] as the index of one of 'names'; 'dflt' when absent. */
 int jsonv_enum(const jsonv_node_t *obj, const char *key, int flags, const char *const *names,
                int dflt, int *out, err_t *e)
 {
@@ -712,6 +742,8 @@ int jsonv_enum(const jsonv_node_t *obj, const char *key, int flags, const char *
     return err_set(e, ERR_INPUT, "%s: key '%s' must be %s, got %s", v.file, v.path, what, got);
 }
 
+/* obj[key] as 1..max_n numbers into buf (room for max_n); the defaults when
+ * absent; with JSONV_INCREASING each must exceed the one before it. */
 int jsonv_numbers(const jsonv_node_t *obj, const char *key, int flags, jsonv_range_t each,
                   size_t min_n, size_t max_n, const double *dflt, size_t n_dflt, double *buf,
                   size_t *n, err_t *e)

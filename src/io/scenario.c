@@ -74,6 +74,7 @@ static void layer_free(scen_layer_t *l)
     free(l->storage_field);
 }
 
+/* Free a scenario and every string it owns; NULL is fine. */
 void scen_free(scen_t *s)
 {
     if (s == NULL) return;
@@ -459,6 +460,8 @@ done:
     return rc;
 }
 
+/* Walking and vehicle speeds (m/s) of road class 'cls' by binary search in
+ * the sorted table; the unknown-class speeds and 0 when it is not there. */
 int scen_road_speed(const scen_t *s, const char *cls, double *walk_mps, double *vehicle_mps)
 {
     const scen_road_class_t *hit = NULL;
@@ -470,6 +473,7 @@ int scen_road_speed(const scen_t *s, const char *cls, double *walk_mps, double *
     return hit != NULL;
 }
 
+/* Walking-speed factor of land-cover class 'value'; the default when unlisted. */
 double scen_cover_factor(const scen_t *s, int value)
 {
     scen_cover_factor_t key = {value, 0};

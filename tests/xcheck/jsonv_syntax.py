@@ -69,8 +69,13 @@ def main():
         for text in cases:
             with open(path, "w", encoding="utf-8") as f:
                 f.write(text)
-            out = subprocess.run([exe, "--locate", path], capture_output=True,
-                                 text=True).stdout.strip()
+            run = subprocess.run([exe, "--locate", path], capture_output=True, text=True)
+            out = run.stdout.strip()
+            if run.returncode != 0 or not out:
+                failed += 1
+                print("CRASH (exit %d) on: %r\n%s" % (run.returncode, text[:200], run.stderr[-2000:]),
+                      file=sys.stderr)
+                continue
             ours = None if out == "ok" else tuple(int(x) for x in out.split()[:2])
             msg = "" if out == "ok" else out
             theirs = python_verdict(text)
