@@ -87,10 +87,10 @@ demo: $(BIN) $(DEMO_DIR)/scenario.json
 check: tests $(DEMO_DIR)/scenario.json
 	./tests/run.sh $(BUILD)
 
-asan:
+asan: $(DEMO_DIR)/scenario.json
 	$(MAKE) BUILD=build-asan OPT='-O1 -g' SANFLAGS='$(SAN)' tests
 	ASAN_OPTIONS=detect_leaks=1 UBSAN_OPTIONS=print_stacktrace=1 \
-	    ./tests/run.sh build-asan --unit-only
+	    ./tests/run.sh build-asan --no-xcheck
 
 bench: $(BIN) $(TOOLS)
 	./tools/bench.sh $(BUILD)
