@@ -21,6 +21,8 @@ typedef struct reach_result {
     double *time_s;          /* n_cells: seconds to the nearest site; INFINITY unreachable */
     int32_t *site;           /* n_cells: nearest site index; -1 unreachable */
     band_table_t bands;      /* zones = districts (0 zones when none) */
+    size_t n_groups;         /* scenario population groups */
+    band_table_t *group_bands; /* n_groups tables, same layout as 'bands' */
     site_load_t *loads;      /* n_sites */
     double *capacity;        /* n_sites (INFINITY = unlimited) */
     int has_capacity;        /* 1 when any site has a finite capacity */

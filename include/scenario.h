@@ -41,6 +41,20 @@ typedef struct scen_cover_factor {
 enum scen_mode { SCEN_MODE_WALK = 0, SCEN_MODE_VEHICLE = 1 };
 enum scen_direction { SCEN_TO_SITE = 0, SCEN_FROM_SITE = 1 };
 
+/* A population group counted apart in the results: a share of every cell's
+ * people, or its own raster of persons on the population grid. */
+typedef struct scen_group {
+    char *name;          /* e.g. "children under five" */
+    double share;        /* (0, 1]; NAN when 'raster' is given */
+    char *raster;        /* resolved path, or NULL when 'share' is given */
+} scen_group_t;
+
+/* Sections owned by later stages, each read by its own src/io/scen_<name>.c
+ * (declared in include/scen_<name>.h); NULL when the section is absent. */
+struct scen_siting;
+struct scen_supply;
+struct scen_variants;
+
 typedef struct scen {
     char *file;              /* path of the scenario file as given */
     char *dir;               /* its folder, for resolving relative paths */
@@ -83,6 +97,14 @@ typedef struct scen {
     double limit_s;          /* "coverage.limit_min", default 60 min, (0, 1440] */
     double bands_s[SCEN_MAX_BANDS]; /* "coverage.bands_min", default 30,60,120 */
     size_t n_bands;          /* strictly increasing, 1..16 */
+
+    /* "population_groups" */
+    scen_group_t *groups;
+    size_t n_groups;         /* 0..16 */
+
+    struct scen_siting *siting;     /* "siting" */
+    struct scen_supply *supply;     /* "supply" */
+    struct scen_variants *variants; /* "variants" */
 } scen_t;
 
 /* Read and validate the scenario at 'path'. On success *out is a new scenario

@@ -3,6 +3,7 @@
  * position below is also what python3 3.11's json.loads reports for the text
  * (line 4, column 5), checked by hand. */
 #include <errno.h>
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -298,8 +299,32 @@ static void test_refusals(void)
            ERR_INPUT, "unknown key 'travel.walk.sped_kmh'; did you mean 'speed_kmh'?");
     refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"travel\": {\"Mode\": \"walk\"}}",
            ERR_INPUT, "unknown key 'travel.Mode'; did you mean 'mode'?");
-    refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"siting\": {}}", ERR_INPUT,
-           "unknown key 'siting'; allowed here: name, inputs, sites, travel, coverage");
+    refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"sitting\": {}}", ERR_INPUT,
+           "unknown key 'sitting'; did you mean 'siting'?");
+    refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"outputs\": {}}", ERR_INPUT,
+           "unknown key 'outputs'; allowed here: name, inputs, sites, travel, coverage, "
+           "population_groups, siting, supply, variants");
+    /* Population groups: a share or a raster, never both or neither. */
+    refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"population_groups\": "
+           "[{\"name\": \"u5\"}]}", ERR_INPUT,
+           "key 'population_groups[0]' needs exactly one of 'share' or 'raster'");
+    refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"population_groups\": "
+           "[{\"name\": \"u5\", \"share\": 1.5}]}", ERR_INPUT, "population_groups[0].share");
+    {
+        scen_t *sg = NULL;
+        err_t eg = {0};
+        CHECK(scen_parse("{\"inputs\": {\"population\": \"p.tif\"}, \"population_groups\": "
+                         "[{\"name\": \"u5\", \"share\": 0.16}, {\"name\": \"w\", "
+                         "\"raster\": \"w.tif\"}]}", "case/g.json", &sg, &eg) == ERR_OK);
+        CHECK(sg != NULL && sg->n_groups == 2);
+        if (sg != NULL && sg->n_groups == 2) {
+            CHECK_NEAR(sg->groups[0].share, 0.16, 0);
+            CHECK(sg->groups[0].raster == NULL);
+            CHECK(isnan(sg->groups[1].share));
+            CHECK_STR_HAS(sg->groups[1].raster, "case/w.tif");
+        }
+        scen_free(sg);
+    }
     refuse("{\"inputs\": {\"population\": \"p.tif\", \"roads\": {\"path\": \"r\", "
            "\"name_field\": \"n\"}}}", ERR_INPUT, "unknown key 'inputs.roads.name_field'");
     refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"sites\": {\"candidate\": {}}}",

@@ -8,12 +8,14 @@
 
 #include <errno.h>
 #include <limits.h>
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 
 #include "jsonv.h"
+#include "scen_sections.h"
 
 #define KMH 3.6  /* km/h per m/s */
 #define MIN 60.0 /* seconds per minute */
@@ -37,7 +39,9 @@ static const struct {
     {"steps", 2, 0},
 };
 
-static const char *const TOP_KEYS[] = {"name", "inputs", "sites", "travel", "coverage", NULL};
+static const char *const TOP_KEYS[] = {"name", "inputs", "sites", "travel", "coverage",
+                                       "population_groups", "siting", "supply", "variants",
+                                       NULL};
 static const char *const INPUT_KEYS[] = {"population", "landcover", "elevation", "barriers",
                                          "roads", "districts", NULL};
 static const char *const ROAD_KEYS[] = {"path", "layer", "id_field", "class_field",
@@ -98,6 +102,14 @@ void scen_free(scen_t *s)
     for (size_t i = 0; i < s->n_road_classes; i++) free(s->road_classes[i].name);
     free(s->road_classes);
     free(s->cover_factors);
+    for (size_t i = 0; i < s->n_groups; i++) {
+        free(s->groups[i].name);
+        free(s->groups[i].raster);
+    }
+    free(s->groups);
+    scen_siting_free(s->siting);
+    scen_supply_free(s->supply);
+    scen_variants_free(s->variants);
     free(s);
 }
 
@@ -364,6 +376,40 @@ static int read_coverage(const jsonv_node_t *root, scen_t *s, err_t *e)
     return ERR_OK;
 }
 
+/* "population_groups": [{"name": ..., "share": 0.16} or {"name": ..., "raster": ...}]. */
+static int read_groups(const jsonv_node_t *root, scen_t *s, err_t *e)
+{
+    static const char *const KEYS[] = {"name", "share", "raster", NULL};
+    jsonv_node_t arr, g;
+    size_t n = 0, i = 0;
+    const cJSON *it;
+    int rc;
+
+    if ((rc = jsonv_array(root, "population_groups", 0, 1, 16, &arr, &n, e)) != ERR_OK ||
+        n == 0)
+        return rc;
+    s->groups = calloc(n, sizeof *s->groups);
+    if (s->groups == NULL) return err_set(e, ERR_NOMEM, "%s: out of memory", s->file);
+    cJSON_ArrayForEach(it, arr.json) {
+        scen_group_t *gr = &s->groups[i];
+        jsonv_node_t sh;
+        jsonv_member(&arr, it, i, &g);
+        s->n_groups = ++i;
+        gr->share = NAN;
+        if ((rc = jsonv_as_object(&g, KEYS, e)) != ERR_OK ||
+            (rc = jsonv_string(&g, "name", JSONV_REQUIRED, NULL, &gr->name, e)) != ERR_OK ||
+            (rc = jsonv_number(&g, "share", 0, JSONV_OPEN_CLOSED(0, 1), NAN, &gr->share, e)) !=
+                ERR_OK ||
+            (rc = raster(&g, "raster", 0, s->dir, &gr->raster, e)) != ERR_OK)
+            return rc;
+        jsonv_child(&g, "share", &sh);
+        if ((sh.json == NULL) == (gr->raster == NULL))
+            return err_set(e, ERR_INPUT, "%s: key '%s' needs exactly one of 'share' or 'raster'",
+                           s->file, g.path);
+    }
+    return ERR_OK;
+}
+
 /* Parse and validate; see the header. 'path' names the file in messages and
  * gives the folder that relative paths are resolved against. */
 int scen_parse(const char *json, const char *path, scen_t **out, err_t *e)
@@ -391,7 +437,11 @@ int scen_parse(const char *json, const char *path, scen_t **out, err_t *e)
         (rc = jsonv_check_keys(&root, TOP_KEYS, e)) != ERR_OK ||
         (rc = jsonv_string(&root, "name", 0, base, &s->name, e)) != ERR_OK ||
         (rc = read_inputs(&root, s, e)) != ERR_OK || (rc = read_sites(&root, s, e)) != ERR_OK ||
-        (rc = read_travel(&root, s, e)) != ERR_OK || (rc = read_coverage(&root, s, e)) != ERR_OK)
+        (rc = read_travel(&root, s, e)) != ERR_OK || (rc = read_coverage(&root, s, e)) != ERR_OK ||
+        (rc = read_groups(&root, s, e)) != ERR_OK ||
+        (rc = scen_siting_read(&root, s, &s->siting, e)) != ERR_OK ||
+        (rc = scen_supply_read(&root, s, &s->supply, e)) != ERR_OK ||
+        (rc = scen_variants_read(&root, s, &s->variants, e)) != ERR_OK)
         goto done;
     *out = s;
     s = NULL;

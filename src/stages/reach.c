@@ -17,6 +17,8 @@ void reach_result_destroy(reach_result_t *res)
     free(res->time_s);
     free(res->site);
     coverage_bands_destroy(&res->bands);
+    for (size_t k = 0; k < res->n_groups; k++) coverage_bands_destroy(&res->group_bands[k]);
+    free(res->group_bands);
     free(res->loads);
     free(res->capacity);
     free(res->served);
@@ -57,6 +59,45 @@ done:
     for (size_t s = 0; s < res->n_sites; s++) travel_reach_destroy(&reach[s]);
     free(reach);
     free(pairs);
+    return rc;
+}
+
+/* People by band for each population group: a share scales every count; a
+ * raster of the group's people must lie on the population grid itself
+ * (resampling counts would not conserve them). */
+static int group_bands(const inputs_t *in, const districts_t *districts, reach_result_t *res,
+                       err_t *e)
+{
+    const scen_t *s = in->scen;
+    const grid_t *g = in->grid;
+    int rc = ERR_OK;
+
+    res->group_bands = calloc(s->n_groups ? s->n_groups : 1, sizeof *res->group_bands);
+    if (res->group_bands == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    for (size_t k = 0; k < s->n_groups && rc == ERR_OK; k++) {
+        const scen_group_t *gr = &s->groups[k];
+        band_table_t *t = &res->group_bands[k];
+        if (gr->raster == NULL) {
+            size_t n = (res->bands.n_zones + 1) * BAND_COLS(&res->bands);
+            *t = res->bands;
+            t->people = malloc(n * sizeof *t->people);
+            if (t->people == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+            for (size_t i = 0; i < n; i++) t->people[i] = res->bands.people[i] * gr->share;
+        } else {
+            grid_t *gg = NULL;
+            rc = grid_load(gr->raster, &gg, e);
+            if (rc == ERR_OK && (gg->nx != g->nx || gg->ny != g->ny ||
+                                 memcmp(gg->gt, g->gt, sizeof g->gt) != 0))
+                rc = err_set(e, ERR_INPUT, "population group raster '%s' (%s) is not on the population grid; warp it onto '%s' first",
+                             gr->raster, gr->name, s->population);
+            if (rc == ERR_OK)
+                rc = coverage_bands(res->n_cells, gg->people, res->time_s,
+                                    districts ? districts->cell : NULL, districts ? districts->n : 0,
+                                    s->bands_s, s->n_bands, t, e);
+            grid_free(gg);
+        }
+        res->n_groups = k + 1;
+    }
     return rc;
 }
 
@@ -114,6 +155,8 @@ int reach_run(const inputs_t *in, network_t *net, const points_t *sites,
     rc = coverage_bands(res->n_cells, g->people, res->time_s, districts ? districts->cell : NULL,
                         districts ? districts->n : 0, in->scen->bands_s, in->scen->n_bands,
                         &res->bands, e);
+    if (rc != ERR_OK) goto done;
+    rc = group_bands(in, districts, res, e);
     if (rc != ERR_OK) goto done;
     rc = coverage_site_loads(res->n_cells, (size_t)g->nx, g->people, res->time_s, res->site,
                              g->row_area_m2, in->scen->limit_s, sites->n, res->loads, e);
@@ -178,6 +221,38 @@ static table_t *bands_table(const band_table_t *b, const districts_t *d, double 
         }
     }
     (void)total;
+    return t;
+}
+
+/* The band table of every population group under one header, group first. */
+static table_t *groups_table(const scen_t *s, const reach_result_t *res, const districts_t *d)
+{
+    static const char *names[] = {"group", "district", "band", "from_min", "to_min", "people",
+                                  "share"};
+    static const int types[] = {TABLE_TEXT, TABLE_TEXT, TABLE_TEXT, TABLE_REAL, TABLE_REAL,
+                                TABLE_REAL, TABLE_REAL};
+    table_t *t = table_new(7, names, types);
+
+    for (size_t k = 0; t != NULL && k < res->n_groups; k++) {
+        table_t *b = bands_table(&res->group_bands[k], d, 0);
+        if (b == NULL) {
+            table_free(t);
+            return NULL;
+        }
+        for (size_t r = 0; r < table_rows(b); r++) {
+            long row = table_add_row(t);
+            if (row < 0) {
+                table_free(b);
+                table_free(t);
+                return NULL;
+            }
+            table_set_text(t, (size_t)row, 0, s->groups[k].name);
+            table_set_text(t, (size_t)row, 1, table_text(b, r, 0));
+            table_set_text(t, (size_t)row, 2, table_text(b, r, 1));
+            for (size_t c = 2; c < 6; c++) table_set_num(t, (size_t)row, c + 1, table_num(b, r, c));
+        }
+        table_free(b);
+    }
     return t;
 }
 
@@ -290,6 +365,18 @@ int reach_write(const char *outdir, const inputs_t *in, const points_t *sites,
     rc = table_write_csv(bt, p, 10, e);
     free(p);
     if (rc != ERR_OK) goto done;
+    if (res->n_groups > 0) {
+        table_t *gt = groups_table(in->scen, res, districts);
+        if (gt == NULL) {
+            rc = err_set(e, ERR_NOMEM, "out of memory building the group table");
+            goto done;
+        }
+        p = out_join(outdir, "groups.csv");
+        rc = table_write_csv(gt, p, 10, e);
+        free(p);
+        table_free(gt);
+        if (rc != ERR_OK) goto done;
+    }
     p = out_join(outdir, "sites.csv");
     rc = table_write_csv(st, p, 10, e);
     free(p);
@@ -309,6 +396,12 @@ int reach_write(const char *outdir, const inputs_t *in, const points_t *sites,
     cJSON_AddNumberToObject(rj, "people_unreachable",
                             coverage_band_total(&res->bands, res->bands.n_bands + 1));
     cJSON_AddItemToObject(rj, "bands", bands_json(&res->bands, districts));
+    if (res->n_groups > 0) {
+        cJSON *gj = cJSON_AddObjectToObject(rj, "groups");
+        for (size_t k = 0; k < res->n_groups; k++)
+            cJSON_AddItemToObject(gj, in->scen->groups[k].name,
+                                  bands_json(&res->group_bands[k], districts));
+    }
     cJSON_AddNumberToObject(rj, "sites", (double)res->n_sites);
     if (res->has_capacity) {
         cJSON *cj = cJSON_AddObjectToObject(rj, "capacity_assignment");

@@ -23,9 +23,9 @@ def srs(epsg):
     return s
 
 
-def raster(name, values, epsg=32736, dtype=gdal.GDT_Float32, nodata=None):
+def raster(name, values, epsg=32736, dtype=gdal.GDT_Float32, nodata=None, x0=X0):
     ds = gdal.GetDriverByName("GTiff").Create(os.path.join(D, name), N, N, 1, dtype)
-    ds.SetGeoTransform((X0, CELL, 0, Y0, 0, -CELL))
+    ds.SetGeoTransform((x0, CELL, 0, Y0, 0, -CELL))
     if epsg:
         ds.SetProjection(srs(epsg).ExportToWkt())
     b = ds.GetRasterBand(1)
@@ -166,3 +166,12 @@ layer("roads_island.geojson", ogr.wkbLineString,
        ("LINESTRING (%f %f, %f %f, %f %f)" % (X0 + 150, yi, X0 + 250, yi, X0 + 350, yi),
         {"highway": "track"})], fields=("highway",))
 scenario("island.json", setp("inputs", "roads", "path", value="roads_island.geojson"))
+
+# Population groups: a share (20% of 4,000 = 800) and a raster of 1 person per
+# cell (400), and the same raster shifted off the grid (refused).
+raster("group.tif", [1.0] * (N * N))
+raster("group_shifted.tif", [1.0] * (N * N), x0=X0 + 50)
+scenario("groups.json", setp("population_groups", value=[
+    {"name": "under five", "share": 0.2}, {"name": "pregnant women", "raster": "group.tif"}]))
+scenario("groups_bad.json", setp("population_groups", value=[
+    {"name": "pregnant women", "raster": "group_shifted.tif"}]))

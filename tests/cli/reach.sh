@@ -3,7 +3,14 @@
 # of people, and the bad-input cases of the travel-time stage.
 NAME=reach
 . "$(dirname "$0")/../cli_lib.sh"
-$PY tests/cli/fixtures.py "$WORK/fx" || { bad "fixtures"; finish; exit 1; }
+$PY tests/cli/fixtures.py "$WORK/fx" || { bad "fixtures"; # Population groups (fixtures.py): 20% of 4,000 and a raster of 400 people.
+expect_ok "$BIN" reach "$F/groups.json" -o "$WORK/o10" --quiet
+g() { $PY -c "import json; d=json.load(open('$WORK/o10/summary.json')); print(sum(b['people'] for b in d['reach']['groups']['$1']['all']))"; }
+check_num "group share" "$(g 'under five')" 800 1e-9
+check_num "group raster" "$(g 'pregnant women')" 400 1e-9
+if [ "$(grep -c 'under five' "$WORK/o10/groups.csv")" -eq 5 ]; then ok; else bad "groups.csv rows"; fi
+expect_fail 1 "is not on the population grid" "$BIN" reach "$F/groups_bad.json" -o "$WORK/o11"
+finish; exit 1; }
 F=$WORK/fx O=$WORK/out1
 
 expect_ok "$BIN" reach "$F/good.json" -o "$O"
@@ -43,4 +50,11 @@ expect_ok "$BIN" reach "$F/no_people.json" -o "$WORK/o9"
 expect_out "holds no people"
 # An unwritable output folder is an error naming it.
 expect_fail 1 "/proc/sitereach" "$BIN" reach "$F/good.json" -o /proc/sitereach
+# Population groups (fixtures.py): 20% of 4,000 and a raster of 400 people.
+expect_ok "$BIN" reach "$F/groups.json" -o "$WORK/o10" --quiet
+g() { $PY -c "import json; d=json.load(open('$WORK/o10/summary.json')); print(sum(b['people'] for b in d['reach']['groups']['$1']['all']))"; }
+check_num "group share" "$(g 'under five')" 800 1e-9
+check_num "group raster" "$(g 'pregnant women')" 400 1e-9
+if [ "$(grep -c 'under five' "$WORK/o10/groups.csv")" -eq 5 ]; then ok; else bad "groups.csv rows"; fi
+expect_fail 1 "is not on the population grid" "$BIN" reach "$F/groups_bad.json" -o "$WORK/o11"
 finish
