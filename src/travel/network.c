@@ -420,10 +420,19 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
     net->n_cells = (int64_t)g->nx * g->ny;
     net->n_road_orig = r != NULL ? (int64_t)r->n_nodes : 0;
     if (r != NULL) {
+        /* A segment can cross at most nx + ny cells inside the grid; a longer one
+         * was not clipped and would blow up the densification. */
+        int64_t most = (int64_t)g->nx + g->ny + 2;
         for (size_t i = 0; i < r->n_segs; i++) {
             const road_seg_t *sg = &r->segs[i];
-            net->n_road_extra += seg_pieces(g->gt, r->x[sg->a], r->y[sg->a], r->x[sg->b],
-                                            r->y[sg->b]) - 1;
+            int64_t k = seg_pieces(g->gt, r->x[sg->a], r->y[sg->a], r->x[sg->b], r->y[sg->b]);
+            if (k > most) {
+                rc = err_set(e, ERR_INPUT, "road segment %zu spans %ld cells, more than the "
+                             "grid's %d x %d; roads must be clipped to the grid", i, (long)k,
+                             g->nx, g->ny);
+                goto done;
+            }
+            net->n_road_extra += k - 1;
         }
     }
     /* travel keeps node ids in int32 arrays to halve its memory. */
