@@ -76,8 +76,11 @@ igraph_neimode_t network_search_mode(const network_t *net);
 int network_direction(const network_t *net);  /* SCEN_TO_SITE or SCEN_FROM_SITE */
 
 /* Join the virtual source to each of 'nodes' by a zero-weight edge (site -> virtual
- * for to_site, virtual -> site for from_site). Edges made by earlier calls are
- * reused: their weight goes back to 0. Errors: a node out of range. */
+ * for to_site, virtual -> site for from_site); every other virtual edge is disabled.
+ * Edges made by earlier calls are reused (their weight goes back to 0); only nodes
+ * never attached before cost a re-index of the whole graph (O(edges), about 24 bytes
+ * per edge of temporaries), so a caller that will try many site sets should attach
+ * all candidate nodes once up front. Errors: a node out of range, NOMEM, igraph. */
 int network_attach_sources(network_t *net, const int64_t *nodes, size_t n, err_t *e);
 /* Disable every virtual edge (weight +infinity, which igraph's Dijkstra ignores). */
 void network_detach_sources(network_t *net);

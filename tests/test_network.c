@@ -479,6 +479,10 @@ static void test_errors(void)
     CHECK_STR_HAS(e.msg, "road segment 0 has length 0");
     r->segs[0].length_m = 10.0;
 
+    r->x[1] = 1e9;
+    CHECK(network_build(g, r, &s, &net, &e) == ERR_INPUT);
+    CHECK_STR_HAS(e.msg, "road segment 0 spans");
+    CHECK_STR_HAS(e.msg, "clipped");
     r->x[1] = NAN;
     CHECK(network_build(g, r, &s, &net, &e) == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "road node 1 has a non-finite position");

@@ -621,6 +621,16 @@ static void test_errors(void)
     network_free(net2);
     free_grid(g);
     free_grid(g2);
+
+    /* A single cell: no edges at all; its own site reaches it in 0 s. */
+    g = mk_grid(1, 1, 10.0);
+    CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
+    sites[0] = 0;
+    CHECK(travel_nearest(net, sites, 1, &res, &e) == ERR_OK);
+    CHECK(res != NULL && res->time_s[0] == 0.0 && res->site[0] == 0);
+    travel_result_free(res);
+    network_free(net);
+    free_grid(g);
 }
 
 /* ---- helper modes for the networkx cross-check ---- */

@@ -686,10 +686,40 @@ static int lay_trunk(demo_t *d, err_t *e)
     if ((rc = lay_spine(d, b1w, w_exit, 4, &first, e))) return rc;
     d->spine_w = first;
 
-    /* Bridge 2: a secondary road; its ends must be reached from each bank. */
-    d->b2e = add_node(d, bridge_end(d, d->row_b2 + 0.5, 1), -1, e);
-    d->b2w = add_node(d, bridge_end(d, d->row_b2 + 0.5, -1), -1, e);
-    if (d->b2e < 0 || d->b2w < 0) return e->code;
+    /* Bridge 2: a secondary road. Near its planned row, find the first row
+     * where the east end can be joined by a straight road to a node of the
+     * east bank's trunk within 4 km, and lay that approach now; the west end
+     * is joined with the west bank's villages later. */
+    d->b2e = -1;
+    for (int tries = 0; tries < 81 && d->b2e < 0; tries++) {
+        int row = d->row_b2 + (tries % 2 ? 1 : -1) * ((tries + 1) / 2);
+        if (row < 20 || row > NY - 20 || fabs(row + 0.5 - d->lake.r) < 30) continue;
+        int pe = add_node(d, bridge_end(d, row + 0.5, 1), -1, e), done = 0;
+        if (pe < 0) return e->code;
+        for (int j = 0; j < pe && !done; j++) {
+            if (d->nodes[j].bank != 1 || dist(d->nodes[j].p, d->nodes[pe].p) > 40) continue;
+            edge_t x;
+            memset(&x, 0, sizeof x);
+            x.a = pe;
+            x.b = j;
+            x.v[0] = d->nodes[pe].p;
+            x.v[1] = d->nodes[j].p;
+            x.nv = 2;
+            if (!edge_ok(d, &x, 3.0)) continue;
+            if ((rc = push_edge(d, &x, C_SECONDARY, e))) return rc;
+            uf_join(d, pe, j);
+            done = 1;
+        }
+        if (done) {
+            d->row_b2 = row;
+            d->b2e = pe;
+        } else {
+            d->n_nodes--;   /* the trial node is the last one; drop it */
+        }
+    }
+    if (d->b2e < 0 && (d->b2e = add_node(d, bridge_end(d, d->row_b2 + 0.5, 1), -1, e)) < 0)
+        return e->code;
+    if ((d->b2w = add_node(d, bridge_end(d, d->row_b2 + 0.5, -1), -1, e)) < 0) return e->code;
     shape_edge(d, &br, d->b2e, d->b2w, 0, 0);
     br.bridge = 1;
     if ((rc = push_edge(d, &br, C_SECONDARY, e))) return rc;

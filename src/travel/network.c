@@ -35,19 +35,24 @@ struct network {
     network_stats_t st;
 };
 
-/* The edge list under construction, with its weights in the same order. */
+/* The edge list under construction, with its weights in the same order. Both
+ * vectors are sized to an exact upper bound up front and written through plain
+ * pointers (80M edges make per-call overhead count); trimmed to n at the end. */
 typedef struct edge_buf {
     igraph_vector_int_t ends;  /* from,to pairs */
     igraph_vector_t w;         /* seconds */
+    size_t n, cap;             /* edges written, room */
 } edge_buf_t;
 
 static int push_edge(edge_buf_t *b, int64_t from, int64_t to, double w, err_t *e)
 {
-    if (igraph_vector_int_push_back(&b->ends, from) != IGRAPH_SUCCESS
-        || igraph_vector_int_push_back(&b->ends, to) != IGRAPH_SUCCESS
-        || igraph_vector_push_back(&b->w, w) != IGRAPH_SUCCESS)
-        return err_set(e, ERR_NOMEM, "out of memory while building the travel network "
-                       "(%ld edges so far)", (long)igraph_vector_size(&b->w));
+    if (b->n == b->cap)
+        return err_set(e, ERR_INTERNAL, "travel network: more edges than the %zu counted "
+                       "in advance", b->cap);
+    VECTOR(b->ends)[2 * b->n] = from;
+    VECTOR(b->ends)[2 * b->n + 1] = to;
+    VECTOR(b->w)[b->n] = w;
+    b->n++;
     return ERR_OK;
 }
 
@@ -89,7 +94,7 @@ static int add_walk_edges(const grid_t *g, const scen_t *s, const double *fac, e
     const int nx = g->nx, ny = g->ny;
     const int n_offs = s->neighbours == 16 ? 8 : 4;
     const int slope = s->use_slope && g->elevation != NULL;
-    size_t n0 = (size_t)igraph_vector_size(&b->w);
+    size_t n0 = b->n;
 
     for (int row = 0; row < ny; row++) {
         for (int col = 0; col < nx; col++) {
@@ -145,7 +150,7 @@ static int add_walk_edges(const grid_t *g, const scen_t *s, const double *fac, e
             }
         }
     }
-    *n_added = (size_t)igraph_vector_size(&b->w) - n0;
+    *n_added = b->n - n0;
     return ERR_OK;
 }
 
@@ -415,10 +420,19 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
     net->n_cells = (int64_t)g->nx * g->ny;
     net->n_road_orig = r != NULL ? (int64_t)r->n_nodes : 0;
     if (r != NULL) {
+        /* A segment can cross at most nx + ny cells inside the grid; a longer one
+         * was not clipped and would blow up the densification. */
+        int64_t most = (int64_t)g->nx + g->ny + 2;
         for (size_t i = 0; i < r->n_segs; i++) {
             const road_seg_t *sg = &r->segs[i];
-            net->n_road_extra += seg_pieces(g->gt, r->x[sg->a], r->y[sg->a], r->x[sg->b],
-                                            r->y[sg->b]) - 1;
+            int64_t k = seg_pieces(g->gt, r->x[sg->a], r->y[sg->a], r->x[sg->b], r->y[sg->b]);
+            if (k > most) {
+                rc = err_set(e, ERR_INPUT, "road segment %zu spans %ld cells, more than the "
+                             "grid's %d x %d; roads must be clipped to the grid", i, (long)k,
+                             g->nx, g->ny);
+                goto done;
+            }
+            net->n_road_extra += k - 1;
         }
     }
     /* travel keeps node ids in int32 arrays to halve its memory. */
@@ -459,9 +473,12 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
         b_ends = 1;
         if (igraph_vector_init(&b.w, 0) != IGRAPH_SUCCESS) goto nomem;
         b_w = 1;
-        if (igraph_vector_int_reserve(&b.ends, 2 * (igraph_integer_t)cap) != IGRAPH_SUCCESS
-            || igraph_vector_reserve(&b.w, (igraph_integer_t)cap) != IGRAPH_SUCCESS)
+        /* resize leaves the memory unwritten, so it is not yet resident. */
+        if (igraph_vector_int_resize(&b.ends, 2 * (igraph_integer_t)cap) != IGRAPH_SUCCESS
+            || igraph_vector_resize(&b.w, (igraph_integer_t)cap) != IGRAPH_SUCCESS)
             goto nomem;
+        b.n = 0;
+        b.cap = cap;
     }
     rc = add_walk_edges(g, s, fac, &b, &n_walk, e);
     if (rc != ERR_OK) goto done;
@@ -472,6 +489,9 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
     }
     free(fac);
     fac = NULL;
+    /* Shrinking never reallocates or fails. */
+    igraph_vector_int_resize(&b.ends, 2 * (igraph_integer_t)b.n);
+    igraph_vector_resize(&b.w, (igraph_integer_t)b.n);
 
     {
         igraph_integer_t nv = (igraph_integer_t)(net->n_cells + net->n_road_orig
@@ -480,7 +500,7 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
         if (ie != IGRAPH_SUCCESS) {
             rc = err_set(e, ie == IGRAPH_ENOMEM ? ERR_NOMEM : ERR_GRAPH,
                          "igraph could not build the travel network of %ld nodes and %ld "
-                         "edges: %s", (long)nv, (long)igraph_vector_size(&b.w),
+                         "edges: %s", (long)nv, (long)b.n,
                          igraph_strerror(ie));
             goto done;
         }
