@@ -154,7 +154,10 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
     lagr_t g;
     unsigned char *is_open = NULL, *seen = NULL;
     double *unit_cost = NULL, *start = NULL, *obj = NULL, *val = NULL;
-    int *ycol = NULL, *fix = NULL, *idx = NULL, *stamp = NULL;
+    int *ycol = NULL, *fix = NULL, *idx = NULL, *stamp = NULL, *eff = NULL, *lsite = NULL;
+    double *lcost = NULL;
+    size_t n_left = 0;      /* sites still free after fixing */
+    int n_forced = 0;       /* free sites fixed open by the bounds */
     size_t n_free = 0, n_fixed_open = 0;
     double pen, lim, ub = INFINITY, constant = 0, maxc = 0, eps;
     int count = o->p, rc = ERR_OK, first;
@@ -192,7 +195,11 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
     idx = malloc((p->n_sites + 2) * sizeof *idx);
     val = malloc((p->n_sites + 2) * sizeof *val);
     stamp = malloc((p->n_sites + 1) * sizeof *stamp);
-    if (!is_open || !seen || !unit_cost || !ycol || !fix || !idx || !val || !stamp) {
+    eff = malloc((p->n_sites + 1) * sizeof *eff);
+    lsite = malloc((p->n_sites + 1) * sizeof *lsite);
+    lcost = malloc((p->n_sites + 1) * sizeof *lcost);
+    if (!is_open || !seen || !unit_cost || !ycol || !fix || !idx || !val || !stamp || !eff ||
+        !lsite || !lcost) {
         rc = err_set(e, ERR_NOMEM, "median: out of memory for %zu sites", p->n_sites);
         goto done;
     }
@@ -256,57 +263,69 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
     r->n_rows = 1;
     r->n_nonzeros = p->n_sites;
 
-    for (size_t i = 0; i < p->n_sites; i++) stamp[i] = -1;
+    /* Effective state after fixing: 1 open, -1 closed, 0 free. */
+    for (size_t i = 0; i < p->n_sites; i++) {
+        eff[i] = p->state[i] == LOC_FIXED_OPEN ? 1 : fix[i] == 1 ? 1 : fix[i] == 0 ? -1 : 0;
+        if (fix[i] == 1) n_forced++;
+        if (eff[i] == 0) n_left++;
+        stamp[i] = -1;
+    }
     for (size_t j = 0; j < p->n_units; j++) {
         double w = p->weight[j];
-        size_t a = p->unit_start[j], z = p->unit_start[j + 1];
+        size_t a = p->unit_start[j], z = p->unit_start[j + 1], nl = 0;
         size_t within = 0;      /* free sites within the current level */
         int prev = 0;           /* column of z_{k-1}, 0 for none */
         int cut = 0, any_open = 0;
         double s_bound = 0;
         size_t ptr = 0;
         if (w <= 0) continue;
-        if (a == z || p->pair_cost[a] > lim) {
+        /* The unit's usable pairs: within the limit, site not fixed closed. */
+        for (size_t k = a; k < z && p->pair_cost[k] <= lim; k++)
+            if (eff[p->pair_site[k]] >= 0) {
+                lsite[nl] = p->pair_site[k];
+                lcost[nl++] = p->pair_cost[k];
+            }
+        if (nl == 0) {
             constant += w * pen;    /* no site within reach: unserved whatever happens */
             continue;
         }
-        constant += w * p->pair_cost[a];
-        if (o->reduce && g.lambda != NULL) {
+        constant += w * lcost[0];
+        if (g.lambda != NULL) {
             ptr = (size_t)count < g.n_free ? (size_t)count : g.n_free;
             for (size_t q = 0; q < ptr; q++) s_bound += g.c[g.order[q]];
         }
-        for (size_t k = a; k < z && !cut;) {
-            double d = p->pair_cost[k];
-            size_t nnz = 0;
-            if (d > lim) break;
+        for (size_t k = 0; k < nl && !cut;) {
+            double d = lcost[k];
+            size_t nnz = 0, k2 = k;
+            int open_here = 0;
             /* Sites at exactly this level. */
-            size_t k2 = k;
-            while (k2 < z && p->pair_cost[k2] == d) {
-                int i = p->pair_site[k2];
+            for (; k2 < nl && lcost[k2] == d; k2++) {
+                int i = lsite[k2];
+                if (is_open[i]) any_open = 1;
+                if (eff[i] == 1) {
+                    open_here = 1;
+                    continue;
+                }
                 idx[nnz] = ycol[i];
                 val[nnz] = 1.0;
                 nnz++;
-                if (p->state[i] == LOC_FIXED_OPEN) {
-                    cut = 1;
-                } else {
-                    within++;
-                    if (g.lambda != NULL && !cut) {
-                        /* Close site i in the restricted Lagrangian problem. */
-                        stamp[i] = (int)j;
-                        if (g.rank[i] < (int)ptr) {
-                            s_bound -= g.c[i];
-                            while (ptr < g.n_free && stamp[g.order[ptr]] == (int)j) ptr++;
-                            if (ptr < g.n_free) s_bound += g.c[g.order[ptr++]];
-                            else s_bound = INFINITY;
-                        }
+                within++;
+                if (g.lambda != NULL && !cut) {
+                    /* Close site i in the restricted Lagrangian problem. */
+                    stamp[i] = (int)j;
+                    if (g.rank[i] < (int)ptr) {
+                        s_bound -= g.c[i];
+                        while (ptr < g.n_free && stamp[g.order[ptr]] == (int)j) ptr++;
+                        if (ptr < g.n_free) s_bound += g.c[g.order[ptr++]];
+                        else s_bound = INFINITY;
                     }
                 }
-                if (is_open[i]) any_open = 1;
-                k2++;
             }
-            if (within >= n_free - (size_t)count + 1) cut = 1;
+            /* An open site at this level: z_k = 0 and the row holds trivially. */
+            if (open_here) break;
+            if (within >= n_left - (size_t)(count - n_forced) + 1) cut = 1;
             if (g.lambda != NULL && g.base + s_bound > ub + eps) cut = 1;
-            double next = (k2 < z && p->pair_cost[k2] <= lim) ? p->pair_cost[k2] : pen;
+            double next = k2 < nl ? lcost[k2] : pen;
             int zc = 0;
             if (!cut) {
                 double c = w * (next - d);
@@ -383,6 +402,9 @@ done:
     free(fix);
     free(idx);
     free(stamp);
+    free(eff);
+    free(lsite);
+    free(lcost);
     free(zstart);
     return rc;
 }

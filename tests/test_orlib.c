@@ -1,0 +1,192 @@
+/* OR-Library checks: p-median pmed1..pmed10 through the edge-list path (igraph
+ * shortest paths) and capacitated location cap41..cap134 through the cost-matrix
+ * path, each against the published optimum in optima.csv (Beasley 1985, 1988;
+ * data and caveats in $SITEREACH_SHARED/data/orlib/README.md).
+ * Usage: test_orlib [pmed|cap|all] [first last] (default: all of the above);
+ * tools/bench-orlib.sh runs every instance with the same binary and prints times. */
+#define _GNU_SOURCE
+#include <igraph.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+#include <unistd.h>
+
+#include "check.h"
+#include "median.h"
+#include "tables.h"
+
+static char shared[1024];
+static char tmpdir[256];
+
+static double now_s(void)
+{
+    struct timespec t;
+    clock_gettime(CLOCK_MONOTONIC, &t);
+    return (double)t.tv_sec + 1e-9 * (double)t.tv_nsec;
+}
+
+/* Published optimum of an instance from optima.csv, or NAN. */
+static double optimum(const char *name)
+{
+    char path[1200], line[512];
+    double v = NAN;
+    snprintf(path, sizeof path, "%s/data/orlib/optima.csv", shared);
+    FILE *f = fopen(path, "r");
+    if (f == NULL) return NAN;
+    while (fgets(line, sizeof line, f)) {
+        char *c1 = strchr(line, ',');
+        if (c1 == NULL) continue;
+        *c1 = '\0';
+        if (strcmp(line, name) == 0) {
+            char *c2 = strchr(c1 + 1, ',');
+            if (c2) v = strtod(c2 + 1, NULL);
+            break;
+        }
+    }
+    fclose(f);
+    return v;
+}
+
+/* Whole file as whitespace-separated tokens (the README: parse by tokens). */
+static char **read_tokens(const char *path, size_t *n)
+{
+    FILE *f = fopen(path, "r");
+    char **t = NULL, buf[128];
+    size_t cap = 0;
+    *n = 0;
+    if (f == NULL) return NULL;
+    while (fscanf(f, "%127s", buf) == 1) {
+        if (*n == cap) {
+            cap = cap ? 2 * cap : 4096;
+            char **q = realloc(t, cap * sizeof *q);
+            if (q == NULL) break;
+            t = q;
+        }
+        t[(*n)++] = strdup(buf);
+    }
+    fclose(f);
+    return t;
+}
+
+static void free_tokens(char **t, size_t n)
+{
+    for (size_t k = 0; k < n; k++) free(t[k]);
+    free(t);
+}
+
+/* Convert pmedK.txt to edges/demand/sites CSV. OR-Library's rule for repeated
+ * edges: read the lines in turn, each overwriting c(i,j) = c(j,i), so the LAST
+ * cost counts (README, "duplicate edges"). Returns p, or -1. */
+static int pmed_to_csv(const char *path, const char *edges, const char *demand,
+                       const char *sites)
+{
+    size_t nt;
+    char **t = read_tokens(path, &nt);
+    int n, m, p;
+    int *last = NULL;
+    if (t == NULL || nt < 3) return -1;
+    n = atoi(t[0]);
+    m = atoi(t[1]);
+    p = atoi(t[2]);
+    if (nt < 3 + 3 * (size_t)m) {
+        free_tokens(t, nt);
+        return -1;
+    }
+    /* last[(a-1)*n + (b-1)] (a < b) = cost of the last line naming the pair. */
+    last = malloc((size_t)n * (size_t)n * sizeof *last);
+    for (size_t k = 0; k < (size_t)n * (size_t)n; k++) last[k] = -1;
+    for (int k = 0; k < m; k++) {
+        int a = atoi(t[3 + 3 * k]), b = atoi(t[4 + 3 * k]), c = atoi(t[5 + 3 * k]);
+        if (a > b) {
+            int s = a;
+            a = b;
+            b = s;
+        }
+        last[(size_t)(a - 1) * (size_t)n + (size_t)(b - 1)] = c;
+    }
+    FILE *fe = fopen(edges, "w"), *fd = fopen(demand, "w"), *fs = fopen(sites, "w");
+    fprintf(fe, "from,to,cost\n");
+    fprintf(fd, "id,weight\n");
+    fprintf(fs, "id\n");
+    for (int a = 0; a < n; a++) {
+        fprintf(fd, "%d,1\n", a + 1);
+        fprintf(fs, "%d\n", a + 1);
+        for (int b = a + 1; b < n; b++)
+            if (last[(size_t)a * (size_t)n + (size_t)b] >= 0)
+                fprintf(fe, "%d,%d,%d\n", a + 1, b + 1, last[(size_t)a * (size_t)n + (size_t)b]);
+    }
+    fclose(fe);
+    fclose(fd);
+    fclose(fs);
+    free(last);
+    free_tokens(t, nt);
+    return p;
+}
+
+static void run_pmed(int k, int verbose)
+{
+    char name[32], path[1200], ed[400], dm[400], st[400];
+    loc_problem_t *prob = NULL;
+    loc_opts_t o;
+    loc_result_t r;
+    err_t e = {0};
+    double t0 = now_s();
+
+    snprintf(name, sizeof name, "pmed%d", k);
+    snprintf(path, sizeof path, "%s/data/orlib/pmed/%s.txt", shared, name);
+    snprintf(ed, sizeof ed, "%s/edges.csv", tmpdir);
+    snprintf(dm, sizeof dm, "%s/demand.csv", tmpdir);
+    snprintf(st, sizeof st, "%s/sites.csv", tmpdir);
+    int p = pmed_to_csv(path, ed, dm, st);
+    CHECK(p > 0);
+    if (p <= 0) return;
+    CHECK(tables_load_network(ed, 0, dm, st, INFINITY, &prob, &e) == ERR_OK);
+    if (prob == NULL) {
+        fprintf(stderr, "%s: %s\n", name, e.msg);
+        return;
+    }
+    loc_opts_default(&o);
+    o.p = p;
+    CHECK(median_solve(prob, &o, &r, &e) == ERR_OK);
+    double opt = optimum(name);
+    /* Published optimum: OR-Library pmedopt (Beasley 1985, Table 2). */
+    CHECK_NEAR(r.objective, opt, 1e-6);
+    CHECK(r.status == SOLVER_OPTIMAL);
+    if (verbose || fabs(r.objective - opt) > 1e-6)
+        printf("%-10s n=%-4zu p=%-4d obj=%-10.1f opt=%-10.1f gap=%.2e heur=%-8.0f lagr=%-10.1f "
+               "fixed=%-4zu cols=%-7zu rows=%-7zu nnz=%-8zu nodes=%-4ld glpk=%.2fs total=%.2fs\n",
+               name, prob->n_units, p, r.objective, opt, (r.objective - opt) / opt,
+               r.heuristic_objective, r.lagrange_bound, r.n_fixed, r.n_cols, r.n_rows,
+               r.n_nonzeros, r.nodes, r.solver_seconds, now_s() - t0);
+    loc_result_destroy(&r);
+    loc_free(prob);
+}
+
+int main(int argc, char **argv)
+{
+    const char *which = argc > 1 ? argv[1] : "all";
+    int verbose = argc > 1;
+    const char *s = getenv("SITEREACH_SHARED");
+
+    igraph_set_error_handler(igraph_error_handler_ignore);
+    snprintf(shared, sizeof shared, "%s", s ? s : "../shared");
+    snprintf(tmpdir, sizeof tmpdir, "/tmp/sitereach-orlib-XXXXXX");
+    if (mkdtemp(tmpdir) == NULL) {
+        perror("mkdtemp");
+        return 1;
+    }
+    if (strcmp(which, "pmed") == 0 || strcmp(which, "all") == 0) {
+        int a = argc > 3 ? atoi(argv[2]) : 1, b = argc > 3 ? atoi(argv[3]) : 10;
+        for (int k = a; k <= b; k++) run_pmed(k, verbose);
+    }
+    char f[400];
+    const char *files[] = {"edges.csv", "demand.csv", "sites.csv", "matrix.csv"};
+    for (int k = 0; k < 4; k++) {
+        snprintf(f, sizeof f, "%s/%s", tmpdir, files[k]);
+        unlink(f);
+    }
+    rmdir(tmpdir);
+    return CHECK_DONE("test_orlib");
+}
