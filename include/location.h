@@ -72,7 +72,7 @@ typedef struct loc_opts {
     int reduce;            /* median: 1 = bound-based reductions (Lagrangian + heuristic) */
 } loc_opts_t;
 
-/* p = 1, no budget, no limit, share 1, automatic penalty, fewest sites, split,
+/* p = -1 (no count limit), no budget, no limit, share 1, automatic penalty, fewest sites, split,
  * per-person cost, heuristic, merging and reductions on; solver defaults. */
 void loc_opts_default(loc_opts_t *o);
 

@@ -212,7 +212,7 @@ void loc_opts_default(loc_opts_t *o)
 {
     memset(o, 0, sizeof *o);
     solver_opts_default(&o->solver);
-    o->p = 1;
+    o->p = -1;
     o->budget = INFINITY;
     o->limit = INFINITY;
     o->share = 1.0;
