@@ -328,6 +328,19 @@ static int cover_run(const loc_problem_t *p, const loc_opts_t *o, int kind, loc_
     }
     rc = solve_groups(p, o, &g, kind, o->heuristic ? start : NULL, is_open, r, &have, e);
     if (rc != ERR_OK) goto done;
+    if (!have && o->heuristic && r->status == SOLVER_NO_PLAN) {
+        /* Stopped before GLPK held a plan: hand back the heuristic plan with the
+         * best bound known (all coverable persons, or no sites, when none). */
+        double trivial = kind == 0 ? g.total - g.uncoverable : 0.0;
+        memcpy(is_open, start, p->n_sites);
+        for (size_t i = 0; i < p->n_sites; i++)
+            if (p->state[i] == LOC_FIXED_OPEN) is_open[i] = 1;
+        r->status = SOLVER_FEASIBLE;
+        r->objective = r->heuristic_objective;
+        if (!isfinite(r->bound)) r->bound = trivial;
+        r->bound = kind == 0 ? fmax(r->bound, r->objective) : fmin(r->bound, r->objective);
+        have = 1;
+    }
     if (have && (rc = loc_plan_nearest(p, is_open, o->limit, r, e))) goto done;
     if (have) {
         /* Fixed cost of the plan excludes nothing: it is what the open sites cost. */

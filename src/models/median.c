@@ -380,6 +380,17 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
         for (size_t i = 0; i < p->n_sites; i++) is_open[i] = sr.x[ycol[i]] > 0.5;
         r->gap = fabs(r->objective - r->bound) / fmax(fabs(r->objective), 1e-9);
         if ((rc = loc_plan_nearest(p, is_open, lim, r, e)) != ERR_OK) goto done;
+    } else if (isfinite(ub) && (sr.status == SOLVER_NO_PLAN || sr.status == SOLVER_FEASIBLE)) {
+        /* Stopped before GLPK held a plan: hand back the heuristic plan (is_open
+         * still holds it) with the best bound known. */
+        double lb = sr.bound + constant;
+        if (!isfinite(lb) || (isfinite(r->lagrange_bound) && r->lagrange_bound > lb))
+            lb = isfinite(r->lagrange_bound) ? r->lagrange_bound : 0.0;
+        r->status = SOLVER_FEASIBLE;
+        r->objective = ub;
+        r->bound = fmin(lb, ub);
+        r->gap = fabs(r->objective - r->bound) / fmax(fabs(r->objective), 1e-9);
+        if ((rc = loc_plan_nearest(p, is_open, lim, r, e)) != ERR_OK) goto done;
     } else {
         r->gap = INFINITY;
     }
