@@ -92,15 +92,18 @@ int main(void)
         CHECK(open[1] && open[4]);
     }
 
-    /* Max cost 600 s with p = 1 and penalty 1000 per person: C serves B, C, D
-     * (300*600 + 0 + 50*600 = 210000) and A, E pay 1000 each: 210000 + 500000.
-     * D serves C, D, E: 200*600 + 400*600 = 360000 + 400 unserved (A, B) * 1000
-     * = 760000. B: 100*600 + 200*600 = 180000 + 450*1000 = 630000: best. */
+    /* Max cost 600 s with p = 1 and penalty 1100 per person:
+     *   A: B 300*600 = 180000 + (C, D, E) 650*1100 = 895000
+     *   B: A 100*600 + C 200*600 = 180000 + (D, E) 450*1100 = 675000 (best)
+     *   C: B 180000 + D 30000 = 210000 + (A, E) 500*1100 = 760000
+     *   D: C 120000 + E 240000 = 360000 + (A, B) 400*1100 = 800000
+     *   E: D 30000 + (A, B, C) 600*1100 = 690000
+     * (with penalty 1000, B and E tie at 630000). */
     o.p = 1;
     o.limit = 600;
-    o.penalty = 1000;
+    o.penalty = 1100;
     CHECK(median_solve(p, &o, &r, &e) == ERR_OK);
-    CHECK_NEAR(r.objective, 630000, 1e-6);
+    CHECK_NEAR(r.objective, 675000, 1e-6);
     CHECK(r.n_open == 1 && r.open[0] == 1);
     CHECK_NEAR(r.unserved_weight, 450, 1e-9);
     CHECK(r.why[3] == LOC_NOT_CHOSEN && r.why[4] == LOC_NOT_CHOSEN && r.assign[4] == -1);

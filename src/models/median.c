@@ -104,13 +104,13 @@ static int lagr_search(const loc_problem_t *p, double lim, double pen, int count
         goto done;
     }
     for (size_t j = 0; j < p->n_units; j++) g->lambda[j] = p->weight[j] * start_cost[j];
-    for (int it = 0; it < 2000 && theta > 1e-4; it++) {
+    for (int it = 0; it < 5000 && theta > 1e-5; it++) {
         lagr_eval(p, lim, pen, count, g);
         if (g->bound > best_bound + 1e-9 * fmax(1.0, fabs(best_bound))) {
             best_bound = g->bound;
             memcpy(best, g->lambda, p->n_units * sizeof *best);
             stall = 0;
-        } else if (++stall >= 20) {
+        } else if (++stall >= 50) {
             theta /= 2;
             stall = 0;
         }
