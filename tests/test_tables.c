@@ -8,7 +8,9 @@
 #include <string.h>
 #include <unistd.h>
 
+#include "capacity.h"
 #include "check.h"
+#include "cover.h"
 #include "median.h"
 #include "tables.h"
 
@@ -44,11 +46,56 @@ static void expect_fail(int rc, const err_t *e, int code, const char *sub)
     CHECK_STR_HAS(e->msg, sub);
 }
 
-int main(void)
+/* Helper mode for tests/xcheck/models_scipy.sh: solve one table instance and
+ * print "objective V status S".
+ *   test_tables --solve KIND MATRIX DEMAND SITES P LIMIT PENALTY SHARE
+ * KIND: maxcover, setcover, median, capacity, capacity1 (single-source). */
+static int solve_mode(int argc, char **argv)
+{
+    loc_problem_t *p = NULL;
+    loc_opts_t o;
+    loc_result_t r;
+    err_t e = {0};
+    int rc;
+
+    if (argc != 10) {
+        fprintf(stderr, "usage: test_tables --solve KIND MATRIX DEMAND SITES P LIMIT PENALTY SHARE\n");
+        return 2;
+    }
+    if (tables_load_matrix(argv[3], argv[4], argv[5], &p, &e) != ERR_OK) {
+        fprintf(stderr, "%s\n", e.msg);
+        return 1;
+    }
+    loc_opts_default(&o);
+    o.p = atoi(argv[6]);
+    o.limit = strtod(argv[7], NULL);
+    o.penalty = strtod(argv[8], NULL);
+    o.share = strtod(argv[9], NULL);
+    if (strcmp(argv[2], "maxcover") == 0) rc = cover_max(p, &o, &r, &e);
+    else if (strcmp(argv[2], "setcover") == 0) rc = cover_set(p, &o, &r, &e);
+    else if (strcmp(argv[2], "median") == 0) rc = median_solve(p, &o, &r, &e);
+    else {
+        o.single_source = strcmp(argv[2], "capacity1") == 0;
+        rc = capacity_solve(p, &o, &r, &e);
+    }
+    if (rc != ERR_OK) {
+        fprintf(stderr, "%s\n", e.msg);
+        loc_free(p);
+        return 1;
+    }
+    printf("objective %.12g status %s\n", r.objective, solver_status_name(r.status));
+    loc_result_destroy(&r);
+    loc_free(p);
+    return 0;
+}
+
+int main(int argc, char **argv)
 {
     loc_problem_t *p = NULL;
     err_t e = {0};
     int rc;
+
+    if (argc > 1 && strcmp(argv[1], "--solve") == 0) return solve_mode(argc, argv);
 
     igraph_set_error_handler(igraph_error_handler_ignore);
     snprintf(dir, sizeof dir, "/tmp/sitereach-tables-XXXXXX");
