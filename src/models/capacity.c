@@ -25,7 +25,7 @@ int capacity_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r,
     solver_mip_t *m = NULL;
     solver_result_t sr;
     int *ycol = NULL, *xcol = NULL, *ucol = NULL, *idx = NULL;
-    double *val = NULL, *obj = NULL, *load = NULL;
+    double *val = NULL, *obj = NULL;
     size_t *site_n = NULL;
     double pen, maxc = 0, minw = INFINITY, sumf = 0;
     int rc = ERR_OK, first;
@@ -58,8 +58,7 @@ int capacity_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r,
     val = malloc(width * sizeof *val);
     obj = malloc((p->n_sites + 1) * sizeof *obj);
     site_n = calloc(p->n_sites + 1, sizeof *site_n);
-    load = calloc(p->n_sites + 1, sizeof *load);
-    if (!ycol || !xcol || !ucol || !idx || !val || !obj || !site_n || !load) {
+    if (!ycol || !xcol || !ucol || !idx || !val || !obj || !site_n) {
         rc = err_set(e, ERR_NOMEM, "capacity: out of memory for %zu pairs", n_x);
         goto done;
     }
@@ -225,6 +224,5 @@ done:
     free(val);
     free(obj);
     free(site_n);
-    free(load);
     return rc;
 }

@@ -189,7 +189,7 @@ int heuristic_median(const loc_problem_t *p, int count, double limit, double pen
     site_lists_t l;
     int *near = NULL;
     double *c1 = NULL, *c2 = NULL;
-    double spent, total = 0;
+    double spent, total = 0;   /* fixed cost is not part of the median objective */
     size_t nnew;
     int rc;
 

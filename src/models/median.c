@@ -152,8 +152,8 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
     solver_mip_t *m = NULL;
     solver_result_t sr;
     lagr_t g;
-    unsigned char *is_open = NULL, *seen = NULL;
-    double *unit_cost = NULL, *start = NULL, *obj = NULL, *val = NULL;
+    unsigned char *is_open = NULL;
+    double *unit_cost = NULL, *start = NULL, *val = NULL;
     int *ycol = NULL, *fix = NULL, *idx = NULL, *stamp = NULL, *eff = NULL, *lsite = NULL;
     double *lcost = NULL;
     size_t n_left = 0;      /* sites still free after fixing */
@@ -188,7 +188,6 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
     }
 
     is_open = calloc(p->n_sites + 1, 1);
-    seen = calloc(p->n_sites + 1, 1);
     unit_cost = malloc((p->n_units + 1) * sizeof *unit_cost);
     ycol = malloc((p->n_sites + 1) * sizeof *ycol);
     fix = malloc((p->n_sites + 1) * sizeof *fix);
@@ -198,7 +197,7 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
     eff = malloc((p->n_sites + 1) * sizeof *eff);
     lsite = malloc((p->n_sites + 1) * sizeof *lsite);
     lcost = malloc((p->n_sites + 1) * sizeof *lcost);
-    if (!is_open || !seen || !unit_cost || !ycol || !fix || !idx || !val || !stamp || !eff ||
+    if (!is_open || !unit_cost || !ycol || !fix || !idx || !val || !stamp || !eff ||
         !lsite || !lcost) {
         rc = err_set(e, ERR_NOMEM, "median: out of memory for %zu sites", p->n_sites);
         goto done;
@@ -290,7 +289,9 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
             continue;
         }
         constant += w * lcost[0];
+        double jterm = 0;       /* unit j's own share of the Lagrangian base */
         if (g.lambda != NULL) {
+            jterm = g.lambda[j] + fmin(0.0, w * pen - g.lambda[j]);
             ptr = (size_t)count < g.n_free ? (size_t)count : g.n_free;
             for (size_t q = 0; q < ptr; q++) s_bound += g.c[g.order[q]];
         }
@@ -324,8 +325,12 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
             /* An open site at this level: z_k = 0 and the row holds trivially. */
             if (open_here) break;
             if (within >= n_left - (size_t)(count - n_forced) + 1) cut = 1;
-            if (g.lambda != NULL && g.base + s_bound > ub + eps) cut = 1;
             double next = k2 < nl ? lcost[k2] : pen;
+            /* Restricted bound: sites within D_k closed, and unit j kept out of
+             * the relaxation: it pays at least w D_{k+1} (or the penalty). */
+            if (g.lambda != NULL &&
+                g.base - jterm + w * fmin(next, pen) + s_bound > ub + eps)
+                cut = 1;
             int zc = 0;
             if (!cut) {
                 double c = w * (next - d);
@@ -404,10 +409,8 @@ done:
     free(g.rank);
     free(g.tmp);
     free(is_open);
-    free(seen);
     free(unit_cost);
     free(start);
-    free(obj);
     free(val);
     free(ycol);
     free(fix);
