@@ -89,13 +89,38 @@ static int solve_mode(int argc, char **argv)
     return 0;
 }
 
+/* Helper mode: print the cost pairs the network loader derives, one
+ * "unit_id site_id cost" line each (tests/xcheck/models_scipy.py compares them
+ * with networkx).   test_tables --network-costs EDGES DEMAND SITES DIRECTED */
+static int costs_mode(int argc, char **argv)
+{
+    loc_problem_t *p = NULL;
+    err_t e = {0};
+
+    if (argc != 6) {
+        fprintf(stderr, "usage: test_tables --network-costs EDGES DEMAND SITES DIRECTED\n");
+        return 2;
+    }
+    if (tables_load_network(argv[2], atoi(argv[5]), argv[3], argv[4], INFINITY, &p, &e)) {
+        fprintf(stderr, "%s\n", e.msg);
+        return 1;
+    }
+    for (size_t j = 0; j < p->n_units; j++)
+        for (size_t k = p->unit_start[j]; k < p->unit_start[j + 1]; k++)
+            printf("%s %s %.17g\n", p->unit_id[j], p->site_id[p->pair_site[k]], p->pair_cost[k]);
+    loc_free(p);
+    return 0;
+}
+
 int main(int argc, char **argv)
 {
     loc_problem_t *p = NULL;
     err_t e = {0};
     int rc;
 
+    igraph_set_error_handler(igraph_error_handler_ignore);
     if (argc > 1 && strcmp(argv[1], "--solve") == 0) return solve_mode(argc, argv);
+    if (argc > 1 && strcmp(argv[1], "--network-costs") == 0) return costs_mode(argc, argv);
 
     igraph_set_error_handler(igraph_error_handler_ignore);
     snprintf(dir, sizeof dir, "/tmp/sitereach-tables-XXXXXX");

@@ -398,8 +398,12 @@ int tables_load_network(const char *edges_csv, int directed, const char *demand_
     if ((rc = load_units_sites(demand_csv, sites_csv, &dc, &sc, &dmap, &smap, &p, e))) goto done;
     if ((rc = csv_read(edges_csv, "edge list", &ec, e)) != ERR_OK) goto done;
     if ((rc = need_cols(&ec, "edge list", enames, ecol, "from,to,cost", e))) goto done;
-    if (igraph_vector_int_init(&edges, 0) != IGRAPH_SUCCESS ||
-        !(edges_ok = 1) || igraph_vector_init(&weights, 0) != IGRAPH_SUCCESS) {
+    if (igraph_vector_int_init(&edges, 0) != IGRAPH_SUCCESS) {
+        rc = err_set(e, ERR_NOMEM, "out of memory reading edge list '%s'", edges_csv);
+        goto done;
+    }
+    edges_ok = 1;
+    if (igraph_vector_init(&weights, 0) != IGRAPH_SUCCESS) {
         rc = err_set(e, ERR_NOMEM, "out of memory reading edge list '%s'", edges_csv);
         goto done;
     }

@@ -1,4 +1,5 @@
-"""Cross-check of the site-selection models against scipy.optimize.milp (HiGHS).
+"""Cross-check of the site-selection models against scipy.optimize.milp (HiGHS),
+and of the edge-list loader's shortest paths against networkx.
 
 Small random instances are written as CSV tables (cost matrix, demand, sites),
 solved by our solver through the table loader (test_tables --solve) and by an
@@ -10,6 +11,7 @@ import subprocess
 import sys
 import tempfile
 
+import networkx as nx
 import numpy as np
 from scipy.optimize import Bounds, LinearConstraint, milp
 from scipy.sparse import lil_matrix
@@ -132,6 +134,60 @@ def ref_assign(w, pairs, cap, fix, p, limit, penalty, kind):
     return solve(c, rows, integ, [0] * (ns + nx + nu), [1] * (ns + nx + nu))
 
 
+def check_network(build, d, rng, directed):
+    """Shortest-path costs from the edge-list loader (igraph) against networkx
+    Dijkstra on a random graph with repeated edges. Returns (passed, failed)."""
+    n = int(rng.integers(20, 60))
+    g = nx.DiGraph() if directed else nx.Graph()
+    g.add_nodes_from(range(n))
+    edges = []
+    for _ in range(3 * n):
+        a, b = int(rng.integers(0, n)), int(rng.integers(0, n))
+        c = float(rng.integers(1, 100)) + 0.5 * float(rng.integers(0, 2))
+        edges.append((a, b, c))
+        # Parallel edges: the cheaper one counts on the road.
+        if g.has_edge(a, b):
+            c = min(c, g[a][b]["weight"])
+        g.add_edge(a, b, weight=c)
+    units = sorted(set(int(x) for x in rng.integers(0, n, 12)))
+    sites = sorted(set(int(x) for x in rng.integers(0, n, 5)))
+    with open(os.path.join(d, "edges.csv"), "w") as f:
+        f.write("from,to,cost\n")
+        for a, b, c in edges:
+            f.write(f"n{a},n{b},{c}\n")
+    # Every node must appear in the edge list for the loader; isolated ones
+    # are dropped from the unit/site lists.
+    used = {a for a, b, c in edges} | {b for a, b, c in edges}
+    units = [u for u in units if u in used]
+    sites = [s for s in sites if s in used]
+    with open(os.path.join(d, "ndemand.csv"), "w") as f:
+        f.write("id,weight\n" + "".join(f"n{u},1\n" for u in units))
+    with open(os.path.join(d, "nsites.csv"), "w") as f:
+        f.write("id\n" + "".join(f"n{s}\n" for s in sites))
+    out = subprocess.run(
+        [os.path.join(build, "tests", "test_tables"), "--network-costs",
+         os.path.join(d, "edges.csv"), os.path.join(d, "ndemand.csv"),
+         os.path.join(d, "nsites.csv"), "1" if directed else "0"],
+        capture_output=True, text=True, check=False)
+    if out.returncode != 0:
+        print("network costs failed:", out.stderr.strip())
+        return 0, 1
+    got = {}
+    for line in out.stdout.splitlines():
+        u, s, c = line.split()
+        got[(int(u[1:]), int(s[1:]))] = float(c)
+    want = {}
+    for u in units:
+        dist = nx.single_source_dijkstra_path_length(g, u, weight="weight")
+        for s in sites:
+            if s in dist:
+                want[(u, s)] = dist[s]
+    ok = set(got) == set(want) and all(abs(got[k] - want[k]) <= 1e-9 for k in want)
+    if not ok:
+        print(f"network costs differ (directed={directed}): {len(got)} vs {len(want)} pairs")
+    return (1, 0) if ok else (0, 1)
+
+
 def main():
     build = sys.argv[1]
     n = int(sys.argv[2]) if len(sys.argv) > 2 else 8
@@ -169,6 +225,10 @@ def main():
                 else:
                     failed += 1
                     print(f"instance {t} {kind} p={pp} limit={lim}: ours {got} scipy {want}")
+        for directed in (False, True, False, True):
+            p_, f_ = check_network(build, d, rng, directed)
+            passed += p_
+            failed += f_
     print(f"models_scipy: {passed} passed, {failed} failed")
     return 1 if failed else 0
 

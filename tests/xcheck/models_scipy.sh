@@ -1,7 +1,8 @@
 #!/bin/sh
 # Cross-check: random covering, median and capacitated instances solved by our
 # models (through the cost-matrix table loader) and by scipy.optimize.milp
-# (HiGHS, Debian python3-scipy) must reach the same optimal objective.
+# (HiGHS, Debian python3-scipy) must reach the same optimal objective; the
+# edge-list loader's igraph shortest paths must equal networkx Dijkstra.
 # Run from the repository root; SITEREACH_BUILD is the build directory.
 build=${SITEREACH_BUILD:-build}
 if [ ! -x "$build/tests/test_tables" ]; then
