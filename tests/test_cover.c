@@ -7,6 +7,7 @@
 
 #include "check.h"
 #include "cover.h"
+#include "heuristic.h"
 
 /* Five villages on a road, 600 s apart (10 minutes):
  *   village   A    B    C    D    E
@@ -192,6 +193,22 @@ int main(void)
         CHECK_STR_HAS(e.msg, "P must be >= 1");
         CHECK(cover_curve(p, &o, 9, &c, &e) == ERR_INPUT);
         CHECK_STR_HAS(e.msg, "p = 9 is larger");
+        loc_free(p);
+    }
+
+    /* Greedy with a budget: a free site that covers nobody must not stop the
+     * search before a paid site that covers someone. */
+    {
+        unsigned char open2[2] = {0, 0};
+        double v = -1;
+        CHECK(loc_new(1, 2, &p, &e) == ERR_OK);
+        p->weight[0] = 10;
+        p->fixed_cost[1] = 5;
+        CHECK(loc_add_pair(p, 0, 1, 100, &e) == ERR_OK);
+        CHECK(loc_finish(p, &e) == ERR_OK);
+        CHECK(heuristic_cover(p, 600, -1, 5, open2, &v, &e) == ERR_OK);
+        CHECK_NEAR(v, 10, 0);
+        CHECK(open2[1] == 1);
         loc_free(p);
     }
 

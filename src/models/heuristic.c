@@ -98,8 +98,11 @@ int heuristic_cover(const loc_problem_t *p, double limit, int count, double budg
             double g = 0;
             for (size_t k = l.start[i]; k < l.start[i + 1]; k++)
                 if (cnt[l.unit[k]] == 0) g += p->weight[l.unit[k]];
+            /* Gain per unit of fixed cost when a budget binds; a free site with a
+             * gain comes first; a site that gains nothing only fills a count. */
             double score = isfinite(budget) && p->fixed_cost[i] > 0 ? g / p->fixed_cost[i] : g;
-            if (isfinite(budget) && p->fixed_cost[i] <= 0) score = INFINITY;
+            if (isfinite(budget) && p->fixed_cost[i] <= 0 && g > 0) score = INFINITY;
+            if (g <= 0) score = 0;
             if (score > best_score) {
                 best_score = score;
                 best = (int)i;
