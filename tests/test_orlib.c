@@ -175,9 +175,9 @@ static void run_pmed(int k, int verbose)
         CHECK(r.status == SOLVER_OPTIMAL);
     }
     if (verbose || fabs(r.objective - opt) > 1e-6)
-        printf("%-7s n=%-3zu p=%-3d obj=%-6.0f opt=%-6.0f diff=%-3.0f %s heur=%-6.0f lagr=%-8.1f "
-               "fixed=%-4zu cols=%-6zu rows=%-6zu nnz=%-7zu nodes=%-4ld glpk=%.2fs total=%.2fs\n",
-               name, prob->n_units, p, r.objective, opt, r.objective - opt,
+        printf("%-7s n=%-3zu p=%-3d obj=%-6.0f opt=%-6.0f gap=%-7.1e %s heur=%-6.0f "
+               "lagr=%-8.1f fixed=%-4zu cols=%-6zu rows=%-6zu nnz=%-7zu nodes=%-4ld glpk=%.2fs "
+               "total=%.2fs\n", name, prob->n_units, p, r.objective, opt, (r.objective - opt) / opt,
                r.status == SOLVER_OPTIMAL ? "opt " : "lim ",
                r.heuristic_objective, r.lagrange_bound, r.n_fixed, r.n_cols, r.n_rows,
                r.n_nonzeros, r.nodes, r.solver_seconds, now_s() - t0);
