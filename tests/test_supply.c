@@ -107,7 +107,7 @@ static double transport(size_t m, size_t n, const double *a, const double *b, co
 
 /* Reads an instance in the format of tests/xcheck/supply_scipy.py and prints
  * "objective V status S". */
-static int solve_file(const char *path)
+static int solve_file(const char *path, const solver_opts_t *o)
 {
     FILE *f = fopen(path, "r");
     size_t C, D, S, K;
@@ -118,7 +118,6 @@ static int solve_file(const char *path)
     double *stock = NULL, *need = NULL, *storage = NULL, *time = NULL, *dist = NULL;
     supply_problem_t p;
     supply_result_t r;
-    solver_opts_t o;
     err_t e = {0};
 
     if (f == NULL) {
@@ -165,12 +164,14 @@ static int solve_file(const char *path)
     p.trucks = tr;
     p.objective = objective;
     p.penalty = penalty;
-    solver_opts_default(&o);
-    if (supply_solve(&p, &o, &r, &e) != ERR_OK) {
+    if (supply_solve(&p, o, &r, &e) != ERR_OK) {
         fprintf(stderr, "%s\n", e.msg);
         goto done;
     }
-    printf("objective %.10g status %s\n", r.objective, solver_status_name(r.status));
+    printf("objective %.10g status %s gap %.3g seconds %.3f nodes %ld penalty %.10g "
+           "truck_hours %.10g short_cost %.10g\n",
+           r.objective, solver_status_name(r.status), r.gap, r.seconds, r.nodes, r.penalty,
+           r.truck_hours, r.short_cost);
     supply_result_destroy(&r);
     rc = 0;
 done:
@@ -193,8 +194,15 @@ int main(int argc, char **argv)
     supply_result_t r;
     supply_problem_t p;
 
-    if (argc == 3 && strcmp(argv[1], "--solve") == 0) return solve_file(argv[2]);
     solver_opts_default(&o);
+    /* Helper mode: --solve FILE [--cuts] [--time SECONDS]. */
+    if (argc >= 3 && strcmp(argv[1], "--solve") == 0) {
+        for (int i = 3; i < argc; i++) {
+            if (strcmp(argv[i], "--cuts") == 0) o.cuts = 1;
+            else if (strcmp(argv[i], "--time") == 0 && i + 1 < argc) o.time_limit_s = atof(argv[++i]);
+        }
+        return solve_file(argv[2], &o);
+    }
 
     /* Water by truck, worked by hand. Sphere (2018) 15 L x 10,000 people x
      * 7 days = 1,050,000 L = 1,050 packs of 1,000 L = 1,050,000 kg. Trucks of

@@ -252,12 +252,23 @@ static int build_mip(const supply_problem_t *p, build_t *b, solver_mip_t *m, dou
     for (size_t r = 0; r < R; r++) {
         size_t ds = b->rd[r] * S + b->rs[r];
         double t = p->time_s[ds], dm = p->dist_m ? p->dist_m[ds] : 0;
+        double max_kg = 0, max_m3 = 0;
+        /* The most this route could ever carry bounds its trips (tighter LP). */
+        for (size_t c = 0; c < C; c++) {
+            double most = fmin(b->need_p[b->rs[r] * C + c], b->stock_p[b->rd[r] * C + c]);
+            max_kg += most * p->comm[c].pack_units * p->comm[c].unit_kg;
+            max_m3 += most * p->comm[c].pack_units * p->comm[c].unit_m3;
+        }
+        max_m3 = fmin(max_m3, storage_of(p, b->rs[r]));
         for (size_t k = 0; k < K; k++) {
-            double cost;
-            if (!truck_fits(&p->trucks[k], t)) continue;
-            cost = trip_cost(p, &p->trucks[k], t, dm);
+            const supply_truck_t *tk = &p->trucks[k];
+            double cost, hi;
+            if (!truck_fits(tk, t)) continue;
+            cost = trip_cost(p, tk, t, dm);
             max_trip = fmax(max_trip, cost);
-            if ((rc = solver_add_cols(m, 1, SOLVER_INTEGER, 0, INFINITY, &cost, &first, e)))
+            hi = fmin(floor(tk->hours_s * tk->count / trip_s(tk, t) + 1e-9),
+                      ceil(fmax(max_kg / tk->payload_kg, max_m3 / tk->volume_m3) - 1e-9));
+            if ((rc = solver_add_cols(m, 1, SOLVER_INTEGER, 0, fmax(hi, 0), &cost, &first, e)))
                 goto done;
             b->tcol[r * K + k] = b->ncols = first;
         }
@@ -354,6 +365,165 @@ static int build_mip(const supply_problem_t *p, build_t *b, solver_mip_t *m, dou
 done:
     free(idx);
     free(val);
+    return rc;
+}
+
+/* A feasible plan to start from: sites in order, commodities by priority,
+ * nearest depot first, limited by stock and storage; then trips per route,
+ * cheapest truck type per kg first, within the hours left; a load the trips
+ * cannot take is trimmed, lowest priority first; finally spare room on the
+ * planned trips is filled. Writes every column of x[1..ncols]. */
+static int greedy_start(const supply_problem_t *p, const build_t *b, double *x, err_t *e)
+{
+    size_t C = b->C, S = b->S, K = b->K, R = b->R;
+    double *stock = NULL, *hours = NULL, *room = NULL, *q = NULL, *t = NULL;
+    size_t *order = NULL, *rord = NULL, *kord = NULL;
+    int rc = ERR_OK;
+
+    stock = malloc((b->D * C + 1) * sizeof *stock);
+    hours = malloc((K + 1) * sizeof *hours);
+    room = malloc((S + 1) * sizeof *room);
+    q = calloc(R * C + 1, sizeof *q);
+    t = calloc(R * K + 1, sizeof *t);
+    order = malloc((C + 1) * sizeof *order);
+    rord = malloc((R + 1) * sizeof *rord);
+    kord = malloc((K + 1) * sizeof *kord);
+    if (!stock || !hours || !room || !q || !t || !order || !rord || !kord) {
+        rc = err_set(e, ERR_NOMEM, "out of memory building the supply start plan");
+        goto done;
+    }
+    memcpy(stock, b->stock_p, b->D * C * sizeof *stock);
+    for (size_t k = 0; k < K; k++) hours[k] = p->trucks[k].hours_s * p->trucks[k].count;
+    for (size_t s = 0; s < S; s++) room[s] = storage_of(p, s);
+    /* Commodities by priority, highest first (insertion sort: C is small). */
+    for (size_t i = 0; i < C; i++) {
+        size_t j = i;
+        for (; j > 0 && p->comm[order[j - 1]].priority < p->comm[i].priority; j--)
+            order[j] = order[j - 1];
+        order[j] = i;
+    }
+    for (size_t s = 0; s < S; s++) {
+        size_t nr = 0;
+        for (size_t r = 0; r < R; r++) {
+            size_t j = nr++;
+            if (b->rs[r] != s) {
+                nr--;
+                continue;
+            }
+            for (; j > 0 && p->time_s[b->rd[rord[j - 1]] * S + s] > p->time_s[b->rd[r] * S + s];
+                 j--)
+                rord[j] = rord[j - 1];
+            rord[j] = r;
+        }
+        for (size_t i = 0; i < C; i++) {
+            size_t c = order[i];
+            double left = b->need_p[s * C + c], pm3 = p->comm[c].pack_units * p->comm[c].unit_m3;
+            for (size_t j = 0; j < nr && left > 0; j++) {
+                size_t r = rord[j], dc = b->rd[r] * C + c;
+                double take = fmin(left, stock[dc]);
+                if (!b->qcol[r * C + c]) continue;
+                if (isfinite(room[s])) take = fmin(take, floor(room[s] / pm3 + 1e-9));
+                if (!(take > 0)) continue;
+                q[r * C + c] += take;
+                left -= take;
+                stock[dc] -= take;
+                room[s] -= take * pm3;
+            }
+        }
+    }
+    for (size_t r = 0; r < R; r++) {
+        double tt = p->time_s[b->rd[r] * S + b->rs[r]];
+        double kg = 0, m3 = 0, kg_left, m3_left, cap_kg = 0, cap_m3 = 0;
+        size_t nk = 0;
+        for (size_t c = 0; c < C; c++) {
+            kg += q[r * C + c] * p->comm[c].pack_units * p->comm[c].unit_kg;
+            m3 += q[r * C + c] * p->comm[c].pack_units * p->comm[c].unit_m3;
+        }
+        /* Types on this route by cost per kg of payload, cheapest first. */
+        for (size_t k = 0; k < K; k++) {
+            size_t j = nk++;
+            double ck;
+            if (!b->tcol[r * K + k]) {
+                nk--;
+                continue;
+            }
+            ck = trip_cost(p, &p->trucks[k], tt, 0) / p->trucks[k].payload_kg;
+            for (; j > 0 && trip_cost(p, &p->trucks[kord[j - 1]], tt, 0) /
+                                p->trucks[kord[j - 1]].payload_kg > ck; j--)
+                kord[j] = kord[j - 1];
+            kord[j] = k;
+        }
+        kg_left = kg;
+        m3_left = m3;
+        for (size_t j = 0; j < nk && (kg_left > 0 || m3_left > 0); j++) {
+            size_t k = kord[j];
+            const supply_truck_t *tk = &p->trucks[k];
+            double want = ceil(fmax(kg_left / tk->payload_kg, m3_left / tk->volume_m3) - 1e-9);
+            double can = floor(hours[k] / trip_s(tk, tt) + 1e-9);
+            double n = fmax(0, fmin(want, can));
+            t[r * K + k] = n;
+            hours[k] -= n * trip_s(tk, tt);
+            kg_left -= n * tk->payload_kg;
+            m3_left -= n * tk->volume_m3;
+            cap_kg += n * tk->payload_kg;
+            cap_m3 += n * tk->volume_m3;
+        }
+        /* Trim what the trips cannot take, lowest priority first. */
+        for (size_t i = C; i-- > 0 && (kg > cap_kg * (1 + 1e-12) || m3 > cap_m3 * (1 + 1e-12));) {
+            size_t c = order[i];
+            double pk = p->comm[c].pack_units * p->comm[c].unit_kg;
+            double pm = p->comm[c].pack_units * p->comm[c].unit_m3;
+            double drop = ceil(fmax((kg - cap_kg) / pk, (m3 - cap_m3) / pm) - 1e-9);
+            drop = fmax(0, fmin(drop, q[r * C + c]));
+            q[r * C + c] -= drop;
+            kg -= drop * pk;
+            m3 -= drop * pm;
+            stock[b->rd[r] * C + c] += drop;
+            room[b->rs[r]] += drop * pm;
+        }
+        /* Fill spare room on these trips with what the site still needs. */
+        for (size_t i = 0; i < C; i++) {
+            size_t c = order[i], s = b->rs[r];
+            double pk = p->comm[c].pack_units * p->comm[c].unit_kg;
+            double pm = p->comm[c].pack_units * p->comm[c].unit_m3;
+            double got = 0, add;
+            if (!b->qcol[r * C + c]) continue;
+            for (size_t rr = 0; rr < R; rr++)
+                if (b->rs[rr] == s) got += q[rr * C + c];
+            add = fmin(b->need_p[s * C + c] - got, stock[b->rd[r] * C + c]);
+            add = fmin(add, floor((cap_kg - kg) / pk + 1e-9));
+            add = fmin(add, floor((cap_m3 - m3) / pm + 1e-9));
+            if (isfinite(room[s])) add = fmin(add, floor(room[s] / pm + 1e-9));
+            if (!(add > 0)) continue;
+            q[r * C + c] += add;
+            kg += add * pk;
+            m3 += add * pm;
+            stock[b->rd[r] * C + c] -= add;
+            room[s] -= add * pm;
+        }
+    }
+    memset(x, 0, ((size_t)b->ncols + 1) * sizeof *x);
+    for (size_t i = 0; i < R * C; i++)
+        if (b->qcol[i]) x[b->qcol[i]] = q[i];
+    for (size_t i = 0; i < R * K; i++)
+        if (b->tcol[i]) x[b->tcol[i]] = t[i];
+    for (size_t s = 0; s < S; s++)
+        for (size_t c = 0; c < C; c++) {
+            double got = 0;
+            if (!b->ucol[s * C + c]) continue;
+            for (size_t r = 0; r < R; r++)
+                if (b->rs[r] == s) got += q[r * C + c];
+            x[b->ucol[s * C + c]] = b->need_p[s * C + c] - got;
+        }
+done:
+    free(stock);
+    free(hours);
+    free(room);
+    free(q);
+    free(t);
+    free(order);
+    free(rord);
+    free(kord);
     return rc;
 }
 
@@ -550,15 +720,12 @@ int supply_solve(const supply_problem_t *p, const solver_opts_t *o, supply_resul
         rc = read_plan(p, &b, NULL, penalty, res, e);
         goto done;
     }
-    if (o->time_limit_s > 0) {
-        start = calloc((size_t)b.ncols + 1, sizeof *start);
-        if (start == NULL) {
-            rc = err_set(e, ERR_NOMEM, "out of memory building the supply model");
-            goto done;
-        }
-        for (size_t i = 0; i < b.S * b.C; i++)
-            if (b.ucol[i]) start[b.ucol[i]] = b.need_p[i];
+    start = calloc((size_t)b.ncols + 1, sizeof *start);
+    if (start == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory building the supply model");
+        goto done;
     }
+    if ((rc = greedy_start(p, &b, start, e))) goto done;
     if ((rc = solver_solve(m, o, start, &sr, e))) goto done;
     res->status = sr.status;
     res->objective = sr.objective;
