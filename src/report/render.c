@@ -1122,8 +1122,10 @@ void render_legend_line(render_map_t *m, render_rgb_t colour, double width, cons
 void render_legend_point(render_map_t *m, render_rgb_t fill, double r_px, int ring,
                          const char *label)
 {
-    double x = legend_x() + 11, y = m->legend_y + 10;
+    double x = legend_x() + 11, y = m->legend_y + (r_px > 8 ? r_px + 4 : 10);
 
+    /* Large reference circles centre on the swatch column's middle. */
+    if (r_px > 11) x = legend_x() + r_px;
     cairo_new_path(m->cr);
     cairo_arc(m->cr, x, y, r_px, 0, 2 * M_PI);
     set_rgb(m->cr, fill);
@@ -1139,8 +1141,8 @@ void render_legend_point(render_map_t *m, render_rgb_t fill, double r_px, int ri
     }
     cairo_set_source_rgb(m->cr, 0.10, 0.10, 0.12);
     font(m->cr, 12, 0);
-    text_fit(m->cr, legend_x() + 30, y + 4, label, LEGEND_W - 42);
-    m->legend_y += r_px > 8 ? 2 * r_px + 6 : 19;
+    text_fit(m->cr, fmax(legend_x() + 30, x + r_px + 8), y + 4, label, LEGEND_W - 42);
+    m->legend_y += r_px > 8 ? 2 * r_px + 8 : 19;
 }
 
 void render_legend_sizes(render_map_t *m, double vmax, double rmax_px, const char *unit)
