@@ -1215,9 +1215,11 @@ static void draw_scale_bar(render_map_t *m, double x, double y)
     m->lay.bar_px = len_px;
     m->lay.bar_m = len_m;
     if (!(len_px > 0)) return;
-    /* Left half solid, right half open, outlined; pixel-aligned edges. */
+    /* Left half solid, right half open, outlined; drawn on whole pixels so
+     * its ends are crisp (at most half a pixel from the exact length). */
+    len_px = round(len_px);
     cairo_set_source_rgb(cr, 0.10, 0.10, 0.12);
-    cairo_rectangle(cr, x, y - 7, len_px / 2, 7);
+    cairo_rectangle(cr, x, y - 7, round(len_px / 2), 7);
     cairo_fill(cr);
     cairo_rectangle(cr, x + 0.5, y - 6.5, len_px - 1, 6);
     cairo_set_line_width(cr, 1);
