@@ -107,4 +107,25 @@ echo '{"command": "check"}' >"$WORK/chk/summary.json"
 expect_fail 1 "no results to report" "$BIN" report "$WORK/chk"
 expect_ok "$BIN" report --help
 expect_out "usage: sitereach report OUTDIR"
+
+# make install puts the man page and the bash completion in place.
+expect_ok make -s install BUILD="${SITEREACH_BUILD:-build}" PREFIX="$WORK/prefix"
+for f in bin/sitereach share/man/man1/sitereach.1 share/bash-completion/completions/sitereach; do
+    if [ -f "$WORK/prefix/$f" ]; then ok; else bad "make install did not install $f"; fi
+done
+# The man page renders without warnings where a formatter is present.
+if command -v groff >/dev/null 2>&1; then
+    run groff -man -Tutf8 -ww -z docs/sitereach.1
+    if [ "$RC" -eq 0 ] && [ ! -s "$WORK/err" ]; then ok; else bad "groff: $(cat "$WORK/err")"; fi
+elif command -v mandoc >/dev/null 2>&1; then
+    expect_ok mandoc -T lint -W warning docs/sitereach.1
+fi
+# Completion: commands, per-command options, scenario files.
+touch "$WORK/a.json" "$WORK/b.txt"
+comp() {   # comp WORD... : the completions of the last word
+    bash -c '. tools/sitereach.bash; COMP_WORDS=("$@"); COMP_CWORD=$(($# - 1)); _sitereach; echo "${COMPREPLY[*]}"' x "$@"
+}
+case " $(comp sitereach re) " in *" reach report "*) ok ;; *) bad "completion of 're': $(comp sitereach re)" ;; esac
+case " $(comp sitereach reach x.json --th) " in *" --threads "*) ok ;; *) bad "completion of --th" ;; esac
+case " $(comp sitereach check "$WORK/") " in *"a.json"*) case " $(comp sitereach check "$WORK/") " in *"b.txt"*) bad "completion offers b.txt" ;; *) ok ;; esac ;; *) bad "completion lacks a.json" ;; esac
 finish
