@@ -201,6 +201,11 @@ void render_legend_note(render_map_t *m, const char *text);
 int render_map_finish(render_map_t *m, const char *crs_name, const char *credits,
                       const char *date, const char *path, err_t *e);
 
+/* Release cairo's and fontconfig's process-wide font caches (for leak
+ * checkers). Call once at the very end of a process that drew text; no render
+ * call may follow. */
+void render_shutdown(void);
+
 /* Base64 of a file's bytes as a new NUL-terminated string (caller frees). */
 int render_base64_file(const char *path, char **out, size_t *len, err_t *e);
 

@@ -255,5 +255,6 @@ int main(void)
     test_escape_credits();
     test_report_errors();
     rmdir(dir);
+    render_shutdown();   /* font caches, so LeakSanitizer sees none */
     return CHECK_DONE("test_charts");
 }

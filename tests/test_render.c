@@ -501,5 +501,6 @@ int main(void)
     test_base64();
     rmdir(dir);
     GDALDestroyDriverManager();
+    render_shutdown();   /* font caches, so LeakSanitizer sees none */
     return CHECK_DONE("test_render");
 }

@@ -12,6 +12,7 @@
 #include <string.h>
 
 #include <cairo.h>
+#include <fontconfig/fontconfig.h>
 #include <gdal.h>
 #include <ogr_api.h>
 #include <ogr_srs_api.h>
@@ -1278,6 +1279,12 @@ int render_map_finish(render_map_t *m, const char *crs_name, const char *credits
 done:
     free(tmp);
     return rc;
+}
+
+void render_shutdown(void)
+{
+    cairo_debug_reset_static_data();
+    FcFini();
 }
 
 int render_base64_file(const char *path, char **out, size_t *len, err_t *e)
