@@ -10,6 +10,7 @@
 #include <stddef.h>
 
 #include "err.h"
+#include "render.h"
 
 #define CHARTS_WIDTH 900
 
@@ -35,6 +36,7 @@ typedef struct charts_stack {
     const char *const *series;     /* n_series labels (legend) */
     const double *values;          /* n_groups * n_series, by group; finite, >= 0 */
     int palette;                   /* CHARTS_RAMP (ordered, e.g. time bands) or _CATEGORIES */
+    const render_rgb_t *colours;   /* n_series colours (e.g. a map's scale), or NULL for 'palette' */
 } charts_stack_t;
 
 /* Horizontal stacked bars, one row per group. Writes the PNG at 'png'

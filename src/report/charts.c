@@ -187,7 +187,7 @@ int charts_stacked_bars(const char *png, const charts_stack_t *c, charts_box_t *
     lx = 16;
     font(cv.cr, 12, 0);
     for (size_t s = 0; s < c->n_series; s++) {
-        render_rgb_t col = series_colour(c->palette, s, c->n_series);
+        render_rgb_t col = c->colours ? c->colours[s] : series_colour(c->palette, s, c->n_series);
         if (s > 0 && s % 3 == 0) {
             ly += 22;
             lx = 16;
@@ -217,7 +217,7 @@ int charts_stacked_bars(const char *png, const charts_stack_t *c, charts_box_t *
         text_right(cv.cr, b.x0 - 8, y + ROW_H / 2 + 4, c->groups[g], LABEL_W - 24);
         for (size_t s = 0; s < c->n_series; s++) {
             double wdt = c->values[g * c->n_series + s] * b.scale;
-            render_rgb_t col = series_colour(c->palette, s, c->n_series);
+            render_rgb_t col = c->colours ? c->colours[s] : series_colour(c->palette, s, c->n_series);
             cairo_rectangle(cv.cr, x, y + 4, wdt, ROW_H - 8);
             cairo_set_source_rgb(cv.cr, col.r, col.g, col.b);
             cairo_fill(cv.cr);

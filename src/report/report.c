@@ -342,7 +342,7 @@ typedef struct rctx {
     char *mapdir;
     cJSON *sum;
     scen_t *scen;             /* NULL when the scenario cannot be read again */
-    sbuf_t figures, body, assumptions;
+    sbuf_t figures, summary, body, assumptions;   /* summary: under the key figures */
     report_result_t *res;
     char credits[256];
     const char *date;
@@ -707,14 +707,21 @@ static int dist_bands_read(const csv_t *t, const char *path, dist_bands_t *d, er
     return ERR_OK;
 }
 
-static int chart_districts(rctx_t *c, const dist_bands_t *d, err_t *e)
+static int chart_districts(rctx_t *c, const dist_bands_t *d, const render_scale_t *sc,
+                           err_t *e)
 {
     charts_stack_t cs = {0};
     char *path = out_join(c->mapdir, "bands_by_district.png");
     size_t first = d->n_d > 1 ? 1 : 0;   /* skip "(all)" when districts follow */
+    render_rgb_t col[RENDER_MAX_CLASSES + 1];
     int rc;
 
     if (path == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    /* The map's band colours, and its "no path" grey for the unreachable. */
+    if (d->n_b <= sc->n + 1) {
+        for (size_t b = 0; b < d->n_b; b++) col[b] = b < sc->n ? sc->colour[b] : sc->nodata;
+        cs.colours = col;
+    }
     cs.title = "People by travel time to the nearest site";
     cs.unit = "people";
     cs.n_groups = d->n_d - first;
@@ -751,7 +758,7 @@ static void sites_table_html(rctx_t *c, const csv_t *t, const sites_tab_t *st)
     int cn = csv_col(t, "name"), cb = csv_col(t, "beyond_limit"), cm = csv_col(t, "mean_min"),
         cx = csv_col(t, "max_min");
     size_t *idx = malloc((st->n + 1) * sizeof *idx), shown;
-    double *key = malloc((st->n + 1) * sizeof *key);
+    double *key = calloc(st->n + 1, sizeof *key);
 
     if (idx == NULL || key == NULL) {
         c->body.failed = 1;
@@ -851,6 +858,7 @@ static int section_reach(rctx_t *c, const cJSON *r, err_t *e)
     csv_t *sites = NULL, *bt = NULL;
     sites_tab_t st = {0};
     dist_bands_t db = {0};
+    render_scale_t sc;
     char val[128], lab[160], det[600];
     int rc = ERR_OK, straddle = 1;
 
@@ -937,11 +945,30 @@ static int section_reach(rctx_t *c, const cJSON *r, err_t *e)
         free(list.s);
     }
 
+    /* Under the key figures: everyone by band, with shares. */
+    sb_str(&c->summary, "<h3>Everyone by travel time to the nearest site</h3>\n<div class=\"scroll\"><table class=\"bands\">\n"
+                        "<thead><tr><th>travel time</th><th class=\"n\">people</th><th class=\"n\">share</th></tr></thead>\n<tbody>\n");
+    for (size_t b = 0; b < db.n_b; b++) {
+        double p = db.people[b];
+        sb_str(&c->summary, db.to_min[b] > limit + 1e-9 ? "<tr class=\"beyond\"><td>" : "<tr><td>");
+        sb_esc(&c->summary, db.band[b]);
+        sb_str(&c->summary, "</td><td class=\"n\">");
+        sb_people(&c->summary, p);
+        sb_fmt(&c->summary, "</td><td class=\"n\">%.1f%%</td></tr>\n", total > 0 ? 100 * p / total : 0.0);
+    }
+    sb_str(&c->summary, "</tbody></table></div>\n");
+    if (isfinite(num(r, "people_unreachable")) && num(r, "people_unreachable") > 0) {
+        sb_str(&c->summary, "<p><strong>");
+        sb_people(&c->summary, num(r, "people_unreachable"));
+        sb_str(&c->summary, " people have no path to any site</strong> (water, barriers or impassable land cover between them and every site).</p>\n");
+    }
+
     /* Body: maps, chart, tables. */
     load_vectors(c);
     sb_str(&c->body, "<section class=\"page\"><h2>Travel time to the nearest site</h2>\n");
     rc = map_travel_time(c, tt, &st, bands, n_bands, e);
-    if (rc == ERR_OK) rc = chart_districts(c, &db, e);
+    if (rc == ERR_OK) rc = render_scale_bands(&sc, bands, n_bands, e);
+    if (rc == ERR_OK) rc = chart_districts(c, &db, &sc, e);
     sb_str(&c->body, "</section>\n<section class=\"page\"><h2>Catchments and loads</h2>\n");
     if (rc == ERR_OK) rc = map_catchments(c, ns, &st, e);
     sb_str(&c->body, "</section>\n<section class=\"page\"><h2>Who is left beyond the limit</h2>\n");
@@ -1034,7 +1061,8 @@ static const char css[] =
     "figcaption{font-size:.9rem;color:#444}\n"
     ".scroll{overflow-x:auto}table{border-collapse:collapse;font-size:.9rem;min-width:60%}"
     "th,td{border-bottom:1px solid #ddd;padding:.25rem .5rem;text-align:left}"
-    "th{background:#eef0f4}.n{text-align:right}tr.over td{background:#fbe9e4}tr.all td{font-weight:bold}\n"
+    "th{background:#eef0f4}.n{text-align:right}tr.over td{background:#fbe9e4}tr.all td{font-weight:bold}"
+    "tr.beyond td{background:#fdf1e2}\n"
     ".caution{border:2px solid #a0522d;background:#fdf4ec;padding:.7rem 1rem;margin:1rem 0}"
     ".small{font-size:.85rem;color:#555}\n"
     "@media (max-width:40rem){.val{font-size:1.5rem}body{padding:0 .5rem}}\n"
@@ -1068,6 +1096,7 @@ static int write_html(rctx_t *c, err_t *e)
     sb_str(&h, "</div>\n<h2 id=\"key-figures\">Key figures</h2>\n<div class=\"figs\">\n");
     sb_str(&h, c->figures.s ? c->figures.s : "");
     sb_str(&h, "</div>\n");
+    sb_str(&h, c->summary.s ? c->summary.s : "");
     sb_str(&h, c->body.s ? c->body.s : "");
     sb_str(&h, "<section class=\"page\"><h2 id=\"assumptions\">Assumptions</h2>\n<ul>\n");
     sb_str(&h, c->assumptions.s ? c->assumptions.s : "");
@@ -1108,7 +1137,7 @@ static int write_html(rctx_t *c, err_t *e)
     sb_str(&h, ".</p>\n</section>\n<div class=\"caution\"><strong>Before acting:</strong> ");
     sb_esc(&h, caution ? caution : "check these results on the ground and against local authorities' guidance.");
     sb_str(&h, "</div>\n</body>\n</html>\n");
-    if (h.failed || c->figures.failed || c->body.failed || c->assumptions.failed) {
+    if (h.failed || c->figures.failed || c->summary.failed || c->body.failed || c->assumptions.failed) {
         free(h.s);
         return err_set(e, ERR_NOMEM, "out of memory composing the report in '%s'", c->outdir);
     }
@@ -1217,6 +1246,7 @@ done:
     free(c.mapdir);
     free(c.wkt);
     free(c.figures.s);
+    free(c.summary.s);
     free(c.body.s);
     free(c.assumptions.s);
     render_lines_free(c.roads);
