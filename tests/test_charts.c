@@ -41,7 +41,7 @@ static void test_stacked(void)
     const char *groups[] = {"North Ward", "South Ward", "A very long district name that will not fit"};
     const char *series[] = {"0-30 min", "30-60 min", "over 60 min"};
     double v[] = {100, 50, 25, 0, 10, 300, 40, 40, 40};
-    charts_stack_t c = {"People by band", "people", 3, groups, 3, series, v, CHARTS_RAMP};
+    charts_stack_t c = {"People by band", "people", 3, groups, 3, series, v, CHARTS_RAMP, NULL};
     charts_box_t b;
     char png[128];
     err_t e = {0};
@@ -91,6 +91,17 @@ static void test_stacked(void)
     c.palette = CHARTS_CATEGORIES;
     CHECK(charts_stacked_bars(png, &c, NULL, &e) == ERR_OK);
     remove(png);
+    /* Colours given by the caller (a map's scale) win over the palette. */
+    {
+        render_rgb_t own[3] = {{1, 0, 0}, {0, 1, 0}, {0, 0, 1}};
+        c.colours = own;
+        CHECK(charts_stacked_bars(png, &c, &b, &e) == ERR_OK);
+        img = cairo_image_surface_create_from_png(png);
+        CHECK(near_rgb(pixel(img, (int)(b.x0 + 50 * b.scale), (int)(b.y0 + b.row_h / 2)), own[0], 0));
+        CHECK(near_rgb(pixel(img, (int)(b.x0 + 200 * b.scale), (int)(b.y0 + 1.5 * b.row_h)), own[2], 0));
+        cairo_surface_destroy(img);
+        remove(png);
+    }
 }
 
 static void test_bars(void)
