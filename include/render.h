@@ -169,7 +169,8 @@ void render_map_highlight(render_map_t *m, const render_lines_t *l, render_rgb_t
 /* Closed rings drawn as dashed outlines, with names at their centres when given. */
 void render_map_outlines(render_map_t *m, const render_lines_t *l, int labels);
 /* Points with area proportional to value (radius = rmax_px * sqrt(v / vmax),
- * at least 2.5 px); fill[i] per point (or fill[0] for all when one_fill). */
+ * at least 2.5 px or rmax_px if smaller); value NULL = all of radius rmax_px.
+ * fill[i] per point (or fill[0] for all when one_fill). */
 void render_map_points(render_map_t *m, size_t n, const double *x, const double *y,
                        const double *value, double vmax, double rmax_px,
                        const render_rgb_t *fill, int one_fill);

@@ -982,11 +982,15 @@ void render_map_points(render_map_t *m, size_t n, const double *x, const double 
         double px, py, r = rmax_px;
         if (value != NULL && vmax > 0)
             r = rmax_px * sqrt(fmax(0, value[i]) / vmax);
-        if (r < 2.5) r = 2.5;
+        if (r < fmin(2.5, rmax_px)) r = fmin(2.5, rmax_px);   /* still visible */
         to_px(&m->v, x[i], y[i], &px, &py);
         cairo_new_path(m->cr);
         cairo_arc(m->cr, px, py, r, 0, 2 * M_PI);
         set_rgb(m->cr, fill[one_fill ? 0 : i]);
+        if (r < 2.5) {   /* tiny marks: no outline, it would swamp the fill */
+            cairo_fill(m->cr);
+            continue;
+        }
         cairo_fill_preserve(m->cr);
         cairo_set_source_rgb(m->cr, 0.08, 0.08, 0.10);
         cairo_set_line_width(m->cr, 1.0);

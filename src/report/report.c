@@ -555,7 +555,7 @@ static int map_travel_time(rctx_t *c, const char *tt_path, const sites_tab_t *st
     render_map_raster(m, v, rw, rh, &sc);
     render_map_roads(m, c->roads);
     render_map_outlines(m, c->districts, 0);
-    render_map_points(m, st->n, st->x, st->y, NULL, 0, st->n > 200 ? 2.5 : 5, &dark, 1);
+    render_map_points(m, st->n, st->x, st->y, NULL, 0, st->n > 200 ? 1.8 : 5, &dark, 1);
     render_map_labels(m, st->n, st->x, st->y, st->label);
     render_legend_title(m, "Minutes to the nearest site");
     render_legend_scale(m, &sc);
@@ -622,7 +622,7 @@ static int map_beyond(rctx_t *c, const char *tt_path, double limit_min, const si
     const char *pop = input_path(c->sum, "population");
     render_map_t *m = NULL;
     render_scale_t sc;
-    render_rgb_t dark = {0.10, 0.10, 0.12};
+    render_rgb_t dark = {0.10, 0.10, 0.12}, grey = {0.30, 0.30, 0.34};
     float *v = NULL;
     double beyond = 0;
     char title[128], caption[256];
@@ -640,12 +640,12 @@ static int map_beyond(rctx_t *c, const char *tt_path, double limit_min, const si
     render_map_raster(m, v, rw, rh, &sc);
     render_map_roads(m, c->roads);
     render_map_outlines(m, c->districts, 1);
-    render_map_points(m, st->n, st->x, st->y, NULL, 0, st->n > 200 ? 2.5 : 4.5, &dark, 1);
+    render_map_points(m, st->n, st->x, st->y, NULL, 0, st->n > 200 ? 1.6 : 4.5, &grey, 1);
     snprintf(caption, sizeof caption, "People per km\xc2\xb2 living more than %g minutes from the nearest site", limit_min);
     render_legend_title(m, "People per km\xc2\xb2 beyond the limit");
     render_legend_scale(m, &sc);
     render_legend_title(m, "Features");
-    render_legend_point(m, dark, 4.5, 0, "site");
+    render_legend_point(m, st->n > 200 ? grey : dark, st->n > 200 ? 1.6 : 4.5, 0, "site");
     map_furniture_legend(c, m);
     render_legend_note(m, "Pixel: people beyond / pixel area.");
     rc = map_close(c, m, "beyond_limit.png", "Map of the density of people beyond the limit",

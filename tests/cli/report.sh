@@ -69,6 +69,27 @@ PYEOF
     expect_ok "$BIN" report "$WORK/demo" --quiet
     if [ -s "$WORK/out" ]; then bad "report --quiet printed: $(cat "$WORK/out")"; else ok; fi
 
+    # A road layer that has gone missing is left off the maps and noted, not fatal;
+    # sites.csv from before the x, y columns is refused with advice.
+    cp -r "$WORK/demo" "$WORK/moved"
+    $PY - "$WORK/moved/summary.json" <<'PYEOF'
+import json, sys
+p = sys.argv[1]
+s = json.load(open(p))
+for i in s["inputs"]:
+    if i["role"] == "roads":
+        i["path"] = "/nonexistent/roads.gpkg"
+json.dump(s, open(p, "w"))
+PYEOF
+    expect_ok "$BIN" report "$WORK/moved"
+    expect_out "note: roads left off the maps"
+    expect_out "/nonexistent/roads.gpkg"
+    if grep -q "roads left off the maps" "$WORK/moved/report.html"; then ok; else bad "note missing from report.html"; fi
+    cut -d, -f1-11 "$WORK/demo/sites.csv" >"$WORK/moved/sites.csv"
+    expect_fail 1 "lacks the columns id, people, x, y" "$BIN" report "$WORK/moved"
+    if [ -f "$WORK/moved/report.html" ] && grep -q "roads left off" "$WORK/moved/report.html"; then ok
+    else bad "a failed report replaced the earlier report.html"; fi
+
     # Text from the data is escaped: a scenario name with markup characters.
     cp -r scenarios/demo "$WORK/esc"
     $PY - "$WORK/esc/scenario.json" <<'PYEOF'
