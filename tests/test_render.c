@@ -367,6 +367,89 @@ static void test_map_burundi(void)
     remove(png);
 }
 
+/* The primitives later sections use: a diverging raster (minutes gained or
+ * lost), flows weighted by a value, highlighted roads, sized points, rings. */
+static void test_primitives(void)
+{
+    enum { NX = 100, NY = 100 };
+    double gt[6] = {0, 100, 0, 10000, 0, -100};   /* 10 km square, 100 m cells */
+    float *v = malloc(NX * NY * sizeof *v);
+    render_map_t *m = NULL;
+    render_layout_t l;
+    render_scale_t s;
+    render_lines_t road = {0};
+    double steps[] = {5, 15, 30};
+    double fx1[] = {1000, 1000}, fy1[] = {9000, 5000}, fx2[] = {9000, 9000}, fy2[] = {9000, 5000};
+    double fv[] = {400, 100}, px[] = {5000, 2000}, py[] = {2000, 2000}, pv[] = {900, 100};
+    double rx[] = {0, 10000}, ry[] = {7000, 7000};
+    size_t rstart[] = {0, 2};
+    int rrank[] = {1}, mark[] = {1, 0};
+    char *rname[] = {NULL};
+    render_rgb_t flow = {0.1, 0.2, 0.8}, hl = {0.9, 0.1, 0.6}, pf = {0.2, 0.7, 0.3};
+    char png[128];
+    err_t e = {0};
+    cairo_surface_t *img;
+
+    /* West half 20 min faster, east half 40 min slower. */
+    for (int r = 0; r < NY; r++)
+        for (int c = 0; c < NX; c++) v[r * NX + c] = c < NX / 2 ? -20.0f : 40.0f;
+    road.n = 1;
+    road.start = rstart;
+    road.x = rx;
+    road.y = ry;
+    road.rank = rrank;
+    road.name = rname;
+    path_in(png, sizeof png, "prim.png");
+    CHECK(render_scale_diverging(&s, steps, 3, &e) == ERR_OK);
+    CHECK(render_map_new(gt, NX, NY, 0, 1, "Primitives", &m, &e) == ERR_OK);
+    if (m == NULL) goto done;
+    render_map_raster(m, v, NX, NY, &s);
+    render_map_highlight(m, &road, hl, 4);
+    render_map_flows(m, 2, fx1, fy1, fx2, fy2, fv, 400, 12, flow);
+    render_map_points(m, 2, px, py, pv, 900, 20, &pf, 1);
+    render_map_rings(m, 2, px, py, mark, 24, hl);
+    render_legend_scale(m, &s);
+    render_legend_sizes(m, 900, 20, "people");
+    CHECK(render_map_finish(m, "local metres", "", "", png, &e) == ERR_OK);
+    render_map_layout(m, &l);
+    img = cairo_image_surface_create_from_png(png);
+    if (cairo_surface_status(img) == CAIRO_STATUS_SUCCESS) {
+        double k = 1.0 / l.view.upp;   /* pixels per metre */
+        int ox = (int)l.view.ox, oy = (int)l.view.oy;
+        /* Diverging classes: 15-30 faster (class 1) west, 30+ slower (class 6) east. */
+        CHECK(near_rgb(pixel(img, ox + (int)(1500 * k), oy + (int)(6000 * k)), s.colour[1], 2));
+        CHECK(near_rgb(pixel(img, ox + (int)(8500 * k), oy + (int)(6000 * k)), s.colour[6], 2));
+        /* Highlighted road along y = 7000 m (3000 m from the top). */
+        CHECK(near_rgb(pixel(img, ox + (int)(3000 * k), oy + (int)(3000 * k)), hl, 2));
+        /* Flow of 400 (full width 12 px) at y = 9000 m, its middle; the thinner
+         * flow of 100 is 3 px wide: its centre line still carries the colour
+         * (drawn at 85% over the raster, so compare loosely). */
+        {
+            uint32_t p1 = pixel(img, ox + (int)(5000 * k), oy + (int)(1000 * k));
+            uint32_t p2 = pixel(img, ox + (int)(5000 * k), oy + (int)(1000 * k) + 5);
+            uint32_t p3 = pixel(img, ox + (int)(5000 * k), oy + (int)(1000 * k) + 9);
+            CHECK((p1 & 255) > 150 && (p1 >> 16 & 255) < 80);
+            CHECK((p2 & 255) > 150 && (p2 >> 16 & 255) < 80);   /* within 6 px of centre */
+            CHECK(!((p3 & 255) > 150 && (p3 >> 16 & 255) < 80)); /* beyond it */
+        }
+        /* Sized points: area by value; 900 -> radius 20 px, 100 -> 6.7 px. */
+        CHECK(near_rgb(pixel(img, ox + (int)(5000 * k) + 15, oy + (int)(8000 * k)), pf, 2));
+        CHECK(near_rgb(pixel(img, ox + (int)(2000 * k) + 5, oy + (int)(8000 * k)), pf, 2));
+        CHECK(!near_rgb(pixel(img, ox + (int)(2000 * k) + 9, oy + (int)(8000 * k)), pf, 2));
+        /* Ring of radius 24 around the marked point only. */
+        CHECK(near_rgb(pixel(img, ox + (int)(5000 * k) + 24, oy + (int)(8000 * k)), hl, 40));
+        CHECK(!near_rgb(pixel(img, ox + (int)(2000 * k) + 24, oy + (int)(8000 * k)), hl, 40));
+    } else {
+        CHECK(0);
+    }
+    cairo_surface_destroy(img);
+done:
+    render_map_free(m);
+    free(v);
+    if (getenv("KEEP_PNG") == NULL) remove(png);
+    else printf("kept %s\n", png);
+}
+
 static void test_vectors(void)
 {
     char gj[128], poly[128];
@@ -496,6 +579,7 @@ int main(void)
     test_geometry();
     test_map_made();
     test_map_burundi();
+    test_primitives();
     test_vectors();
     test_io_errors();
     test_base64();
