@@ -161,6 +161,9 @@ void render_map_raster(render_map_t *m, const float *v, int rw, int rh,
 /* Category raster (value = index, NaN or < 0 = none): pale tints and dark
  * boundaries where neighbouring pixels differ. */
 void render_map_categories(render_map_t *m, const float *v, int rw, int rh);
+/* Blank out (map background) the pixels where mask[rw*rh] is NaN, e.g. cells
+ * outside the population data, so nobody reads colours there as results. */
+void render_map_blank(render_map_t *m, const float *mask, int rw, int rh);
 /* Lines: roads by rank in greys, or 'highlight' (thick, coloured, haloed) for
  * closed or changed links. */
 void render_map_roads(render_map_t *m, const render_lines_t *l);

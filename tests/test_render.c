@@ -404,6 +404,14 @@ static void test_primitives(void)
     CHECK(render_map_new(gt, NX, NY, 0, 1, "Primitives", &m, &e) == ERR_OK);
     if (m == NULL) goto done;
     render_map_raster(m, v, NX, NY, &s);
+    {
+        /* Blank the westmost 5 columns (500 m), as outside the population data. */
+        float *mask = calloc(NX * NY, sizeof *mask);
+        for (int r = 0; r < NY; r++)
+            for (int c = 0; c < 5; c++) mask[r * NX + c] = NAN;
+        render_map_blank(m, mask, NX, NY);
+        free(mask);
+    }
     render_map_highlight(m, &road, hl, 4);
     render_map_flows(m, 2, fx1, fy1, fx2, fy2, fv, 400, 12, flow);
     render_map_points(m, 2, px, py, pv, 900, 20, &pf, 1);
@@ -416,6 +424,10 @@ static void test_primitives(void)
     if (cairo_surface_status(img) == CAIRO_STATUS_SUCCESS) {
         double k = 1.0 / l.view.upp;   /* pixels per metre */
         int ox = (int)l.view.ox, oy = (int)l.view.oy;
+        /* Blanked strip: the map background, not a class colour. */
+        CHECK(near_rgb(pixel(img, ox + (int)(250 * k), oy + (int)(6000 * k)),
+                       ((render_rgb_t){0.965, 0.960, 0.950}), 1));
+        CHECK(near_rgb(pixel(img, ox + (int)(700 * k), oy + (int)(6000 * k)), s.colour[1], 2));
         /* Diverging classes: 15-30 faster (class 1) west, 30+ slower (class 6) east. */
         CHECK(near_rgb(pixel(img, ox + (int)(1500 * k), oy + (int)(6000 * k)), s.colour[1], 2));
         CHECK(near_rgb(pixel(img, ox + (int)(8500 * k), oy + (int)(6000 * k)), s.colour[6], 2));

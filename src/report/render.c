@@ -28,6 +28,9 @@
 #define MARGIN 16.0
 #define FOOTER_H 78.0    /* scale bar and credit lines under the map */
 #define MAX_MAP_H 820    /* tallest map area, pixels */
+/* Map background: a very light warm grey, so clear classes and blanked areas
+ * still read as "inside the map". */
+#define MAP_BACKGROUND ((render_rgb_t){0.965, 0.960, 0.950})
 
 /* ---- colours ---------------------------------------------------------- */
 
@@ -739,9 +742,7 @@ int render_map_new(const double gt[6], int nx, int ny, int geographic, double m_
     }
     cairo_set_source_rgb(m->cr, 1, 1, 1);
     cairo_paint(m->cr);
-    /* Map background: a very light warm grey, so clear (transparent) classes
-     * still read as "inside the map". */
-    cairo_set_source_rgb(m->cr, 0.965, 0.960, 0.950);
+    set_rgb(m->cr, MAP_BACKGROUND);
     cairo_rectangle(m->cr, m->v.ox, m->v.oy, m->v.w, m->v.h);
     cairo_fill(m->cr);
     cairo_set_source_rgb(m->cr, 0.10, 0.10, 0.12);
@@ -864,6 +865,30 @@ void render_map_categories(render_map_t *m, const float *v, int rw, int rh)
     paint_area(m, img);
 done:
     free(lab);
+    cairo_surface_destroy(img);
+}
+
+void render_map_blank(render_map_t *m, const float *mask, int rw, int rh)
+{
+    cairo_surface_t *img = cairo_image_surface_create(CAIRO_FORMAT_ARGB32, m->v.w, m->v.h);
+    uint32_t bg = argb(MAP_BACKGROUND, 1.0);
+    unsigned char *data;
+    int stride;
+
+    if (cairo_surface_status(img) != CAIRO_STATUS_SUCCESS) {
+        cairo_surface_destroy(img);
+        return;
+    }
+    cairo_surface_flush(img);
+    data = cairo_image_surface_get_data(img);
+    stride = cairo_image_surface_get_stride(img);
+    for (int j = 0; j < m->v.h; j++) {
+        uint32_t *row = (uint32_t *)(void *)(data + (size_t)j * stride);
+        for (int i = 0; i < m->v.w; i++)
+            row[i] = isnan(sample(mask, rw, rh, m->v.w, m->v.h, i, j)) ? bg : 0;
+    }
+    cairo_surface_mark_dirty(img);
+    paint_area(m, img);
     cairo_surface_destroy(img);
 }
 

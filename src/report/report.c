@@ -539,12 +539,32 @@ static int sites_tab_read(const csv_t *t, const char *path, sites_tab_t *s, err_
     return ERR_OK;
 }
 
+/* Population at the map's resolution as a mask: NaN where the population
+ * raster has no data (outside a country, the sea). NULL when unavailable. */
+static float *population_mask(rctx_t *c, int rw, int rh)
+{
+    const char *pop = input_path(c->sum, "population");
+    float *mask = NULL;
+    err_t e = {0};
+    int nx, ny, geo;
+    double gt[6], mpu;
+
+    if (pop == NULL || render_raster_info(pop, &nx, &ny, gt, &geo, &mpu, NULL, &e) != ERR_OK ||
+        nx != c->nx || ny != c->ny)
+        return NULL;
+    if (render_read_band(pop, rw, rh, RENDER_AVERAGE, &mask, &e) != ERR_OK) return NULL;
+    for (size_t i = 0; i < (size_t)rw * rh; i++)
+        if (isnan(mask[i])) return mask;
+    free(mask);   /* no gaps: nothing to blank */
+    return NULL;
+}
+
 static int map_travel_time(rctx_t *c, const char *tt_path, const sites_tab_t *st,
                            const double *bands, size_t n_bands, err_t *e)
 {
     render_map_t *m = NULL;
     render_scale_t sc;
-    float *v = NULL;
+    float *v = NULL, *mask = NULL;
     int rw, rh, rc;
     render_rgb_t dark = {0.10, 0.10, 0.12};
 
@@ -553,6 +573,8 @@ static int map_travel_time(rctx_t *c, const char *tt_path, const sites_tab_t *st
     if (rc == ERR_OK) rc = render_read_band(tt_path, rw, rh, RENDER_AVERAGE, &v, e);
     if (rc != ERR_OK) goto done;
     render_map_raster(m, v, rw, rh, &sc);
+    mask = population_mask(c, rw, rh);
+    if (mask) render_map_blank(m, mask, rw, rh);
     render_map_roads(m, c->roads);
     render_map_outlines(m, c->districts, 0);
     render_map_points(m, st->n, st->x, st->y, NULL, 0, st->n > 200 ? 1.8 : 5, &dark, 1);
@@ -563,10 +585,12 @@ static int map_travel_time(rctx_t *c, const char *tt_path, const sites_tab_t *st
     render_legend_point(m, dark, 5, 0, "site");
     map_furniture_legend(c, m);
     render_legend_note(m, "Each pixel: mean time of its cells.");
+    if (mask) render_legend_note(m, "Blank: no population data.");
     rc = map_close(c, m, "travel_time.png", "Map of travel time to the nearest site in bands",
                    "Travel time to the nearest site, by band. Grey: no path.", e);
 done:
     free(v);
+    free(mask);
     render_map_free(m);
     return rc;
 }
@@ -575,6 +599,7 @@ static int map_catchments(rctx_t *c, const char *ns_path, const sites_tab_t *st,
 {
     render_map_t *m = NULL;
     render_rgb_t *fill = NULL;
+    float *mask = NULL;
     render_rgb_t ok = render_ramp_cool(0.72), over = render_oklch(0.55, 0.18, 30),
                  none = {0.55, 0.55, 0.58};
     double vmax = 0;
@@ -592,6 +617,10 @@ static int map_catchments(rctx_t *c, const char *ns_path, const sites_tab_t *st,
     rc = map_open(c, "Catchments and each site's load", &m, &rw, &rh, e);
     if (rc == ERR_OK) rc = render_read_band(ns_path, rw, rh, RENDER_MODE, &v, e);
     if (rc != ERR_OK) goto done;
+    mask = population_mask(c, rw, rh);
+    if (mask)   /* no catchment drawn where nobody can live */
+        for (size_t i = 0; i < (size_t)rw * rh; i++)
+            if (isnan(mask[i])) v[i] = NAN;
     render_map_categories(m, v, rw, rh);
     render_map_roads(m, c->roads);
     render_map_points(m, st->n, st->x, st->y, st->people, vmax, st->n > 200 ? 8 : 22, fill, 0);
@@ -611,6 +640,7 @@ static int map_catchments(rctx_t *c, const char *ns_path, const sites_tab_t *st,
                    e);
 done:
     free(v);
+    free(mask);
     free(fill);
     render_map_free(m);
     return rc;
