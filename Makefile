@@ -7,7 +7,7 @@
 #   make install PREFIX=/usr/local
 # Set WERROR=1 (CI does) to turn warnings into errors.
 
-PKGS     := igraph gdal libcjson proj cairo libcrypto
+PKGS     := igraph gdal libcjson proj cairo fontconfig libcrypto
 CC       ?= cc
 BUILD    ?= build
 PREFIX   ?= /usr/local

@@ -11,12 +11,15 @@
 
 #include "cli.h"
 #include "err.h"
+#include "render.h"
 
 static const cli_command_t commands[] = {
     {"check", "validate a scenario and its inputs, print a report", cmd_check_usage, 0,
-     cmd_check},
+     cmd_check, NULL},
     {"reach", "travel times to the nearest site, catchments, people by time band",
-     cmd_reach_usage, 1, cmd_reach},
+     cmd_reach_usage, 1, cmd_reach, NULL},
+    {"report", "the HTML plan report (maps, charts, tables) of an output folder",
+     cmd_report_usage, 0, cmd_report, "OUTDIR"},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 
@@ -77,6 +80,8 @@ int main(int argc, char **argv)
     igraph_set_warning_handler(igraph_warning_handler_ignore);
 
     rc = c->run(&o, &e);
+    /* Font caches of the maps' text: released so leak checkers stay quiet. */
+    render_shutdown();
     if (rc != ERR_OK) return cli_fail(c->name, &e);
     return EXIT_OK;
 }
