@@ -84,6 +84,7 @@ typedef struct supply_result {
     long nodes;
     double seconds;         /* solver wall-clock time */
     double penalty;         /* the penalty used (given or automatic) */
+    double start_objective; /* objective of the heuristic plan handed to the solver */
     double truck_hours;     /* all trips, hours */
     double trip_cost;       /* objective part of trips */
     double short_cost;      /* objective part of shortages */

@@ -238,6 +238,8 @@ static void check_time_limited(void)
     CHECK(r.status == SOLVER_OPTIMAL || r.status == SOLVER_FEASIBLE);
     CHECK(isfinite(r.objective) && r.gap >= 0);
     CHECK_NEAR(r.trip_cost + r.short_cost, r.objective, 1e-6 * r.objective);
+    /* The solver keeps the heuristic start or improves on it. */
+    CHECK(isfinite(r.start_objective) && r.objective <= r.start_objective * (1 + 1e-9));
     memset(used_stock, 0, sizeof used_stock);
     memset(used_m3, 0, sizeof used_m3);
     for (size_t i = 0; i < r.n_routes; i++) {
