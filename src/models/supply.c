@@ -583,7 +583,7 @@ static double draft_cost(const supply_problem_t *p, const build_t *b, const draf
  * nearest-depot-first, one from the LP relaxation rounded down; both get
  * their trips from plan_trips, so both keep every row. 'o' limits the LP. */
 static int make_start(const supply_problem_t *p, const build_t *b, const solver_opts_t *o,
-                      double penalty, double *x, double *cost, err_t *e)
+                      double penalty, double *x, double *cost, double *lp_s, err_t *e)
 {
     draft_t f;
     build_t bl;
@@ -605,6 +605,7 @@ static int make_start(const supply_problem_t *p, const build_t *b, const solver_
     if ((rc = solver_mip_new("supply LP relaxation", SOLVER_MIN, &lp, e))) goto done;
     if ((rc = build_mip(p, &bl, lp, 1, &pen_lp, e))) goto done;
     if ((rc = solver_solve(lp, o, NULL, &lr, e))) goto done;
+    *lp_s = lr.seconds;
     if (lr.x == NULL || bl.ncols != b->ncols) goto done;   /* no LP plan: keep the first */
     if ((rc = draft_init(p, b, &f, e))) goto done;
     alloc_from_lp(p, b, &f, lr.x);
@@ -790,7 +791,8 @@ int supply_solve(const supply_problem_t *p, const solver_opts_t *o, supply_resul
     build_t b;
     solver_mip_t *m = NULL;
     solver_result_t sr;
-    double *start = NULL, penalty = 0;
+    solver_opts_t mo;
+    double *start = NULL, penalty = 0, lp_s = 0;
     int rc = ERR_OK;
 
     memset(&b, 0, sizeof b);
@@ -817,18 +819,32 @@ int supply_solve(const supply_problem_t *p, const solver_opts_t *o, supply_resul
         rc = err_set(e, ERR_NOMEM, "out of memory building the supply model");
         goto done;
     }
-    if ((rc = make_start(p, &b, o, penalty, start, &res->start_objective, e))) goto done;
-    if ((rc = solver_solve(m, o, start, &sr, e))) goto done;
+    if ((rc = make_start(p, &b, o, penalty, start, &res->start_objective, &lp_s, e))) goto done;
+    /* The time limit covers the relaxation and the MIP together. */
+    mo = *o;
+    if (mo.time_limit_s > 0) mo.time_limit_s = fmax(1.0, mo.time_limit_s - lp_s);
+    if ((rc = solver_solve(m, &mo, start, &sr, e))) goto done;
     res->status = sr.status;
     res->objective = sr.objective;
     res->bound = sr.bound;
     res->gap = sr.gap;
     res->nodes = sr.nodes;
-    res->seconds = sr.seconds;
+    res->seconds = sr.seconds + lp_s;   /* the relaxation for the start counts too */
     if (sr.status == SOLVER_INFEASIBLE || sr.status == SOLVER_UNBOUNDED) {
         /* Shortage columns make every instance feasible and costs are >= 0. */
         rc = err_set(e, ERR_INTERNAL, "supply model came back %s; this is a bug",
                      solver_status_name(sr.status));
+        goto done;
+    }
+    if (sr.status == SOLVER_NO_PLAN) {
+        /* Stopped before GLPK took the start: the start is the plan. */
+        res->status = SOLVER_FEASIBLE;
+        res->objective = res->start_objective;
+        res->gap = isfinite(sr.bound) ? fabs(res->objective - sr.bound) /
+                                            fmax(fabs(res->objective), 1e-9) : INFINITY;
+        warn_add(&res->warnings, "the solver stopped at its time limit before improving the "
+                 "starting plan; the plan is the heuristic one");
+        rc = read_plan(p, &b, start, penalty, res, e);
         goto done;
     }
     rc = read_plan(p, &b, sr.x, penalty, res, e);
