@@ -47,6 +47,14 @@ static int nonneg_finite(double v)
     return v >= 0 && isfinite(v);
 }
 
+static int pos_finite(double v)
+{
+    return v > 0 && isfinite(v);
+}
+
+/* Validates the instance: sizes and arrays, commodity weights, volumes, packs
+ * and priorities, stocks, needs, storage, travel times and distances, truck
+ * types and the penalty. ERR_INPUT names the depot, site, truck or commodity. */
 int supply_check(const supply_problem_t *p, err_t *e)
 {
     names_t nm;
@@ -68,11 +76,10 @@ int supply_check(const supply_problem_t *p, err_t *e)
         const stock_commodity_t *k = &p->comm[c];
         const char *field = NULL;
         double v = 0;
-        if (!(k->unit_kg > 0) || !isfinite(k->unit_kg)) field = "unit_kg (weight)", v = k->unit_kg;
-        else if (!(k->unit_m3 > 0) || !isfinite(k->unit_m3)) field = "unit_m3 (volume)", v = k->unit_m3;
-        else if (!(k->pack_units > 0) || !isfinite(k->pack_units))
-            field = "pack_units (pack size)", v = k->pack_units;
-        else if (!(k->priority > 0) || !isfinite(k->priority)) field = "priority", v = k->priority;
+        if (!pos_finite(k->unit_kg)) field = "unit_kg (weight)", v = k->unit_kg;
+        else if (!pos_finite(k->unit_m3)) field = "unit_m3 (volume)", v = k->unit_m3;
+        else if (!pos_finite(k->pack_units)) field = "pack_units (pack size)", v = k->pack_units;
+        else if (!pos_finite(k->priority)) field = "priority", v = k->priority;
         if (field != NULL)
             return err_set(e, ERR_INPUT, "commodity '%s': %s must be a number > 0 (got %g)",
                            comm_name(k), field, v);
@@ -111,8 +118,8 @@ int supply_check(const supply_problem_t *p, err_t *e)
         const supply_truck_t *t = &p->trucks[k];
         const char *field = NULL;
         double v = 0;
-        if (!(t->payload_kg > 0) || !isfinite(t->payload_kg)) field = "payload_kg", v = t->payload_kg;
-        else if (!(t->volume_m3 > 0) || !isfinite(t->volume_m3)) field = "volume_m3", v = t->volume_m3;
+        if (!pos_finite(t->payload_kg)) field = "payload_kg", v = t->payload_kg;
+        else if (!pos_finite(t->volume_m3)) field = "volume_m3", v = t->volume_m3;
         if (field != NULL)
             return err_set(e, ERR_INPUT, "truck type '%s': %s must be > 0 (got %g)",
                            truck_name(t), field, v);
@@ -735,7 +742,8 @@ static int read_plan(const supply_problem_t *p, const build_t *b, const double *
         o->packs = calloc(C + 1, sizeof *o->packs);
         nr++;
         res->n_routes = nr;
-        if (!o->trips || !o->packs) return err_set(e, ERR_NOMEM, "out of memory reading the supply plan");
+        if (!o->trips || !o->packs)
+            return err_set(e, ERR_NOMEM, "out of memory reading the supply plan");
         for (size_t k = 0; k < K; k++) {
             double n = b->tcol[r * K + k] ? whole(x[b->tcol[r * K + k]]) : 0;
             o->trips[k] = n;
@@ -857,6 +865,7 @@ done:
     return rc;
 }
 
+/* Frees what a result owns and leaves it empty; NULL-safe, may run twice. */
 void supply_result_destroy(supply_result_t *r)
 {
     if (r == NULL) return;
@@ -876,6 +885,7 @@ void supply_result_destroy(supply_result_t *r)
     r->n_routes = r->n_lines = 0;
 }
 
+/* Short name of a shortage reason, as used in reports and docs/supply.md. */
 const char *supply_reason_name(int reason)
 {
     switch (reason) {
