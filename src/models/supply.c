@@ -383,6 +383,7 @@ typedef struct draft {
     double *stock, *hours, *room;  /* left: [d*C+c] packs, [k] seconds, [s] m3 */
     size_t *order;                 /* commodities by priority, highest first */
     size_t *scratch;               /* routes or truck types being sorted */
+    double *scratch_q;             /* [r*C+c] packs being moved */
 } draft_t;
 
 static void draft_free(draft_t *f)
@@ -394,6 +395,7 @@ static void draft_free(draft_t *f)
     free(f->room);
     free(f->order);
     free(f->scratch);
+    free(f->scratch_q);
     memset(f, 0, sizeof *f);
 }
 
@@ -409,7 +411,9 @@ static int draft_init(const supply_problem_t *p, const build_t *b, draft_t *f, e
     f->room = malloc((b->S + 1) * sizeof *f->room);
     f->order = malloc((C + 1) * sizeof *f->order);
     f->scratch = malloc((R + K + 1) * sizeof *f->scratch);
-    if (!f->q || !f->t || !f->stock || !f->hours || !f->room || !f->order || !f->scratch) {
+    f->scratch_q = calloc(R * C + 1, sizeof *f->scratch_q);
+    if (!f->q || !f->t || !f->stock || !f->hours || !f->room || !f->order || !f->scratch ||
+        !f->scratch_q) {
         draft_free(f);
         return err_set(e, ERR_NOMEM, "out of memory building the supply start plan");
     }
@@ -493,9 +497,25 @@ static void alloc_from_lp(const supply_problem_t *p, const build_t *b, draft_t *
                 draft_take(p, b, f, r, c, floor(x[b->qcol[r * b->C + c]] + 1e-6));
 }
 
+/* Load (kg, m3) and capacity (kg, m3) of route r in a draft. */
+static void route_load(const supply_problem_t *p, const build_t *b, const draft_t *f, size_t r,
+                       double *kg, double *m3, double *cap_kg, double *cap_m3)
+{
+    *kg = *m3 = *cap_kg = *cap_m3 = 0;
+    for (size_t c = 0; c < b->C; c++) {
+        *kg += f->q[r * b->C + c] * pack_kg(p, c);
+        *m3 += f->q[r * b->C + c] * pack_m3(p, c);
+    }
+    for (size_t k = 0; k < b->K; k++) {
+        *cap_kg += f->t[r * b->K + k] * p->trucks[k].payload_kg;
+        *cap_m3 += f->t[r * b->K + k] * p->trucks[k].volume_m3;
+    }
+}
+
 /* Trips for the allocated loads: per route, the truck type cheapest per kg
  * first, within the hours left; a load the trips cannot take is trimmed,
- * lowest priority first; then spare room on the trips is filled. */
+ * lowest priority first; then spare room on the trips is filled. Trips
+ * already in the draft stay, so a second call only adds what is missing. */
 static void plan_trips(const supply_problem_t *p, const build_t *b, draft_t *f)
 {
     size_t C = b->C, K = b->K, S = b->S, *kord = f->scratch;
@@ -503,11 +523,8 @@ static void plan_trips(const supply_problem_t *p, const build_t *b, draft_t *f)
     for (size_t r = 0; r < b->R; r++) {
         size_t s = b->rs[r], nk = 0;
         double tt = p->time_s[b->rd[r] * S + s];
-        double kg = 0, m3 = 0, kg_left, m3_left, cap_kg = 0, cap_m3 = 0;
-        for (size_t c = 0; c < C; c++) {
-            kg += f->q[r * C + c] * pack_kg(p, c);
-            m3 += f->q[r * C + c] * pack_m3(p, c);
-        }
+        double kg, m3, kg_left, m3_left, cap_kg, cap_m3;
+        route_load(p, b, f, r, &kg, &m3, &cap_kg, &cap_m3);
         for (size_t k = 0; k < K; k++) {
             size_t j;
             double ck;
@@ -518,13 +535,14 @@ static void plan_trips(const supply_problem_t *p, const build_t *b, draft_t *f)
                 kord[j] = kord[j - 1];
             kord[j] = k;
         }
-        kg_left = kg;
-        m3_left = m3;
+        /* Only what the trips already planned cannot carry needs new trips. */
+        kg_left = kg - cap_kg;
+        m3_left = m3 - cap_m3;
         for (size_t j = 0; j < nk && (kg_left > 0 || m3_left > 0); j++) {
             const supply_truck_t *tk = &p->trucks[kord[j]];
             double want = ceil(fmax(kg_left / tk->payload_kg, m3_left / tk->volume_m3) - 1e-9);
             double n = fmax(0, fmin(want, floor(f->hours[kord[j]] / trip_s(tk, tt) + 1e-9)));
-            f->t[r * K + kord[j]] = n;
+            f->t[r * K + kord[j]] += n;
             f->hours[kord[j]] -= n * trip_s(tk, tt);
             kg_left -= n * tk->payload_kg;
             m3_left -= n * tk->volume_m3;
@@ -552,6 +570,63 @@ static void plan_trips(const supply_problem_t *p, const build_t *b, draft_t *f)
             draft_take(p, b, f, r, c, add);
             kg += (f->q[r * C + c] - before) * pack_kg(p, c);
             m3 += (f->q[r * C + c] - before) * pack_m3(p, c);
+        }
+    }
+}
+
+/* Local search on a draft: a route whose whole load fits in the spare room
+ * of other routes into the same site (from depots with stock left) is closed
+ * and its trips go back to the fleet. One pass in route order; that is enough
+ * to undo most of the splits that rounding the LP leaves. */
+static void merge_routes(const supply_problem_t *p, const build_t *b, draft_t *f)
+{
+    size_t C = b->C, K = b->K, S = b->S;
+
+    for (size_t r = 0; r < b->R; r++) {
+        size_t s = b->rs[r];
+        double trips = 0;
+        double *moved = f->scratch_q;
+        int ok = 1;
+        for (size_t k = 0; k < K; k++) trips += f->t[r * K + k];
+        if (trips < 0.5) continue;
+        memset(moved, 0, b->R * C * sizeof *moved);
+        for (size_t c = 0; c < C && ok; c++) {
+            double left = f->q[r * C + c];
+            for (size_t r2 = 0; r2 < b->R && left > 0; r2++) {
+                double kg2, m32, ck2, cm2, n;
+                if (r2 == r || b->rs[r2] != s || !b->qcol[r2 * C + c]) continue;
+                route_load(p, b, f, r2, &kg2, &m32, &ck2, &cm2);
+                for (size_t cc = 0; cc < C; cc++) {
+                    kg2 += moved[r2 * C + cc] * pack_kg(p, cc);
+                    m32 += moved[r2 * C + cc] * pack_m3(p, cc);
+                }
+                /* Each depot appears once among the routes into s. */
+                n = fmin(left, f->stock[b->rd[r2] * C + c]);
+                n = fmin(n, floor((ck2 - kg2) / pack_kg(p, c) + 1e-9));
+                n = fmin(n, floor((cm2 - m32) / pack_m3(p, c) + 1e-9));
+                if (!(n > 0)) continue;
+                moved[r2 * C + c] += n;
+                left -= n;
+            }
+            ok = !(left > 0);
+        }
+        if (!ok) continue;
+        /* Commit: stock moves between depots; the site's volume is unchanged. */
+        for (size_t r2 = 0; r2 < b->R; r2++)
+            for (size_t c = 0; c < C; c++) {
+                double n = moved[r2 * C + c];
+                if (!(n > 0)) continue;
+                f->q[r2 * C + c] += n;
+                f->stock[b->rd[r2] * C + c] -= n;
+            }
+        for (size_t c = 0; c < C; c++) {
+            f->stock[b->rd[r] * C + c] += f->q[r * C + c];
+            f->q[r * C + c] = 0;
+        }
+        for (size_t k = 0; k < K; k++) {
+            double tt = p->time_s[b->rd[r] * S + s];
+            f->hours[k] += f->t[r * K + k] * trip_s(&p->trucks[k], tt);
+            f->t[r * K + k] = 0;
         }
     }
 }
@@ -604,6 +679,9 @@ static int make_start(const supply_problem_t *p, const build_t *b, const solver_
     if ((rc = draft_init(p, b, &f, e))) return rc;
     alloc_nearest(p, b, &f);
     plan_trips(p, b, &f);
+    merge_routes(p, b, &f);
+    alloc_nearest(p, b, &f);   /* hours freed by merging may carry more */
+    plan_trips(p, b, &f);
     *cost = draft_cost(p, b, &f, penalty, x);
     draft_free(&f);
 
@@ -616,6 +694,9 @@ static int make_start(const supply_problem_t *p, const build_t *b, const solver_
     if (lr.x == NULL || bl.ncols != b->ncols) goto done;   /* no LP plan: keep the first */
     if ((rc = draft_init(p, b, &f, e))) goto done;
     alloc_from_lp(p, b, &f, lr.x);
+    plan_trips(p, b, &f);
+    merge_routes(p, b, &f);
+    alloc_nearest(p, b, &f);   /* hours freed by merging may carry more */
     plan_trips(p, b, &f);
     c2 = draft_cost(p, b, &f, penalty, NULL);
     if (c2 < *cost) *cost = draft_cost(p, b, &f, penalty, x);
