@@ -82,8 +82,9 @@ typedef struct supply_result {
     int status;             /* SOLVER_* */
     double objective, bound, gap;
     long nodes;
-    double seconds;         /* solver wall-clock time */
+    double seconds;         /* solver wall-clock time (LP relaxation for the start + MIP) */
     double penalty;         /* the penalty used (given or automatic) */
+    double start_objective; /* objective of the heuristic plan handed to the solver */
     double truck_hours;     /* all trips, hours */
     double trip_cost;       /* objective part of trips */
     double short_cost;      /* objective part of shortages */

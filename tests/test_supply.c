@@ -238,6 +238,8 @@ static void check_time_limited(void)
     CHECK(r.status == SOLVER_OPTIMAL || r.status == SOLVER_FEASIBLE);
     CHECK(isfinite(r.objective) && r.gap >= 0);
     CHECK_NEAR(r.trip_cost + r.short_cost, r.objective, 1e-6 * r.objective);
+    /* The solver keeps the heuristic start or improves on it. */
+    CHECK(isfinite(r.start_objective) && r.objective <= r.start_objective * (1 + 1e-9));
     memset(used_stock, 0, sizeof used_stock);
     memset(used_m3, 0, sizeof used_m3);
     for (size_t i = 0; i < r.n_routes; i++) {
@@ -281,7 +283,8 @@ int main(int argc, char **argv)
     if (argc >= 3 && strcmp(argv[1], "--solve") == 0) {
         for (int i = 3; i < argc; i++) {
             if (strcmp(argv[i], "--cuts") == 0) o.cuts = 1;
-            else if (strcmp(argv[i], "--time") == 0 && i + 1 < argc) o.time_limit_s = atof(argv[++i]);
+            else if (strcmp(argv[i], "--time") == 0 && i + 1 < argc)
+                o.time_limit_s = atof(argv[++i]);
         }
         return solve_file(argv[2], &o);
     }
@@ -312,6 +315,38 @@ int main(int argc, char **argv)
         CHECK(r.lines[0].reason == SUPPLY_MET);
         CHECK(r.warnings.n == 0);
         supply_result_destroy(&r);
+
+        /* Cost objective: 105 trips x 3 h x 50 per hour = 15,750; plus 20 km
+         * each way at 2 per km: 105 x 40 km x 2 = 8,400; total 24,150. */
+        {
+            double dist = 20000;
+            t.cost_per_hour = 50;
+            t.cost_per_m = 0.002;
+            p.objective = SUPPLY_MIN_COST;
+            p.dist_m = &dist;
+            CHECK(supply_solve(&p, &o, &r, &e) == ERR_OK);
+            CHECK_NEAR(r.objective, 24150, 1e-6);
+            CHECK_NEAR(r.trip_cost, 24150, 1e-6);
+            CHECK_NEAR(r.truck_hours, 315, 1e-6);
+            CHECK_NEAR(r.routes[0].dist_m, 20000, 0);
+            supply_result_destroy(&r);
+            /* A given penalty lower than driving: 0.001 per L x priority 3 =
+             * 3 per 1,000 L pack, while a trip costs 3 h x 50 + 40 km x 2 = 230
+             * for 10 packs (23 a pack): nothing moves, and the reason says the
+             * penalty chose it. */
+            p.penalty = 0.001;
+            CHECK(supply_solve(&p, &o, &r, &e) == ERR_OK);
+            CHECK_NEAR(r.lines[0].delivered, 0, 0);
+            CHECK(r.lines[0].reason == SUPPLY_PENALTY);
+            CHECK_NEAR(r.objective, 1050000 * 3 * 0.001, 1e-6);
+            CHECK_NEAR(r.penalty, 0.001, 0);
+            supply_result_destroy(&r);
+            p.penalty = 0;
+            p.objective = SUPPLY_MIN_HOURS;
+            p.dist_m = NULL;
+            t.cost_per_hour = 0;
+            t.cost_per_m = 0;
+        }
 
         /* The same with 5 trucks x 40 h = 200 h: floor(200 / 3) = 66 trips
          * carry 660 packs = 660,000 L; 390,000 L short, reason "fleet". */

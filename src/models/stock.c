@@ -56,6 +56,7 @@ int stock_policy_check(const stock_policy_t *p, err_t *e)
     return ERR_OK;
 }
 
+/* Whole packs of 'pack_units' needed to hold 'units' (rounded up). */
 double stock_packs(double units, double pack_units)
 {
     double r = units / pack_units;
@@ -105,6 +106,7 @@ int stock_size(const stock_commodity_t *c, const stock_policy_t *p, double perso
     return ERR_OK;
 }
 
+/* stock_size for each of n commodities; sums packs, kg and m3 into *total. */
 int stock_size_site(const stock_commodity_t *c, size_t n, const stock_policy_t *p,
                     double persons, stock_line_t *lines, stock_line_t *total, err_t *e)
 {
@@ -121,6 +123,8 @@ int stock_size_site(const stock_commodity_t *c, size_t n, const stock_policy_t *
     return ERR_OK;
 }
 
+/* Energy (kcal) and mass (g) per person per day of a basket; ERR_INPUT
+ * names an item with negative or non-numeric grams or energy. */
 int stock_food_energy(const stock_food_item_t *items, size_t n, double *kcal, double *grams,
                       err_t *e)
 {
@@ -174,6 +178,7 @@ static const stock_food_item_t default_basket[] = {
     {"iodised salt", 5, 0},
 };
 
+/* The default basket above (static, not to be freed); *n gets its length. */
 const stock_food_item_t *stock_food_basket_default(size_t *n)
 {
     *n = sizeof default_basket / sizeof default_basket[0];
@@ -183,6 +188,8 @@ const stock_food_item_t *stock_food_basket_default(size_t *n)
 /* Sphere Handbook (2018): 2,100 kcal per person per day (general food ration). */
 #define SPHERE_KCAL 2100.0
 
+/* Fills *out with the default commodity 'name' (water, food, shelter); the
+ * values and their sources are in docs/supply.md. Strings are static. */
 int stock_default(const char *name, stock_commodity_t *out, err_t *e)
 {
     memset(out, 0, sizeof *out);

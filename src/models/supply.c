@@ -47,6 +47,14 @@ static int nonneg_finite(double v)
     return v >= 0 && isfinite(v);
 }
 
+static int pos_finite(double v)
+{
+    return v > 0 && isfinite(v);
+}
+
+/* Validates the instance: sizes and arrays, commodity weights, volumes, packs
+ * and priorities, stocks, needs, storage, travel times and distances, truck
+ * types and the penalty. ERR_INPUT names the depot, site, truck or commodity. */
 int supply_check(const supply_problem_t *p, err_t *e)
 {
     names_t nm;
@@ -68,11 +76,10 @@ int supply_check(const supply_problem_t *p, err_t *e)
         const stock_commodity_t *k = &p->comm[c];
         const char *field = NULL;
         double v = 0;
-        if (!(k->unit_kg > 0) || !isfinite(k->unit_kg)) field = "unit_kg (weight)", v = k->unit_kg;
-        else if (!(k->unit_m3 > 0) || !isfinite(k->unit_m3)) field = "unit_m3 (volume)", v = k->unit_m3;
-        else if (!(k->pack_units > 0) || !isfinite(k->pack_units))
-            field = "pack_units (pack size)", v = k->pack_units;
-        else if (!(k->priority > 0) || !isfinite(k->priority)) field = "priority", v = k->priority;
+        if (!pos_finite(k->unit_kg)) field = "unit_kg (weight)", v = k->unit_kg;
+        else if (!pos_finite(k->unit_m3)) field = "unit_m3 (volume)", v = k->unit_m3;
+        else if (!pos_finite(k->pack_units)) field = "pack_units (pack size)", v = k->pack_units;
+        else if (!pos_finite(k->priority)) field = "priority", v = k->priority;
         if (field != NULL)
             return err_set(e, ERR_INPUT, "commodity '%s': %s must be a number > 0 (got %g)",
                            comm_name(k), field, v);
@@ -111,8 +118,8 @@ int supply_check(const supply_problem_t *p, err_t *e)
         const supply_truck_t *t = &p->trucks[k];
         const char *field = NULL;
         double v = 0;
-        if (!(t->payload_kg > 0) || !isfinite(t->payload_kg)) field = "payload_kg", v = t->payload_kg;
-        else if (!(t->volume_m3 > 0) || !isfinite(t->volume_m3)) field = "volume_m3", v = t->volume_m3;
+        if (!pos_finite(t->payload_kg)) field = "payload_kg", v = t->payload_kg;
+        else if (!pos_finite(t->volume_m3)) field = "volume_m3", v = t->volume_m3;
         if (field != NULL)
             return err_set(e, ERR_INPUT, "truck type '%s': %s must be > 0 (got %g)",
                            truck_name(t), field, v);
@@ -228,15 +235,17 @@ static int add_row(solver_mip_t *m, size_t nnz, const int *idx, const double *va
 }
 
 /* Builds the MIP into 'm' and the column maps into 'b'; *penalty gets the
- * shortage cost per unit before the priority. */
-static int build_mip(const supply_problem_t *p, build_t *b, solver_mip_t *m, double *penalty,
-                     err_t *e)
+ * shortage cost per unit before the priority. 'relax' = 1 builds the LP
+ * relaxation (every column continuous) with the same columns and rows. */
+static int build_mip(const supply_problem_t *p, build_t *b, solver_mip_t *m, int relax,
+                     double *penalty, err_t *e)
 {
     size_t C = b->C, K = b->K, R = b->R, S = b->S, D = b->D;
     size_t nmax = (R + 1) * (C + K + 1) + S * C + 1;
     int *idx = NULL, first, rc = ERR_OK;
     double *val = NULL, max_trip = 0, min_pp = INFINITY;
     size_t n;
+    int kind = relax ? SOLVER_CONTINUOUS : SOLVER_INTEGER;
 
     b->qcol = calloc(R * C + 1, sizeof *b->qcol);
     b->tcol = calloc(R * K + 1, sizeof *b->tcol);
@@ -268,14 +277,14 @@ static int build_mip(const supply_problem_t *p, build_t *b, solver_mip_t *m, dou
             max_trip = fmax(max_trip, cost);
             hi = fmin(floor(tk->hours_s * tk->count / trip_s(tk, t) + 1e-9),
                       ceil(fmax(max_kg / tk->payload_kg, max_m3 / tk->volume_m3) - 1e-9));
-            if ((rc = solver_add_cols(m, 1, SOLVER_INTEGER, 0, fmax(hi, 0), &cost, &first, e)))
+            if ((rc = solver_add_cols(m, 1, kind, 0, fmax(hi, 0), &cost, &first, e)))
                 goto done;
             b->tcol[r * K + k] = b->ncols = first;
         }
         for (size_t c = 0; c < C; c++) {
             double hi = fmin(b->need_p[b->rs[r] * C + c], b->stock_p[b->rd[r] * C + c]);
             if (!(hi > 0)) continue;
-            if ((rc = solver_add_cols(m, 1, SOLVER_INTEGER, 0, hi, NULL, &first, e))) goto done;
+            if ((rc = solver_add_cols(m, 1, kind, 0, hi, NULL, &first, e))) goto done;
             b->qcol[r * C + c] = b->ncols = first;
         }
     }
@@ -368,162 +377,334 @@ done:
     return rc;
 }
 
-/* A feasible plan to start from: sites in order, commodities by priority,
- * nearest depot first, limited by stock and storage; then trips per route,
- * cheapest truck type per kg first, within the hours left; a load the trips
- * cannot take is trimmed, lowest priority first; finally spare room on the
- * planned trips is filled. Writes every column of x[1..ncols]. */
-static int greedy_start(const supply_problem_t *p, const build_t *b, double *x, err_t *e)
-{
-    size_t C = b->C, S = b->S, K = b->K, R = b->R;
-    double *stock = NULL, *hours = NULL, *room = NULL, *q = NULL, *t = NULL;
-    size_t *order = NULL, *rord = NULL, *kord = NULL;
-    int rc = ERR_OK;
+/* A starting plan under construction; all arrays owned. */
+typedef struct draft {
+    double *q, *t;                 /* [r*C+c] packs, [r*K+k] trips */
+    double *stock, *hours, *room;  /* left: [d*C+c] packs, [k] seconds, [s] m3 */
+    size_t *order;                 /* commodities by priority, highest first */
+    size_t *scratch;               /* routes or truck types being sorted */
+    double *scratch_q;             /* [r*C+c] packs being moved */
+} draft_t;
 
-    stock = malloc((b->D * C + 1) * sizeof *stock);
-    hours = malloc((K + 1) * sizeof *hours);
-    room = malloc((S + 1) * sizeof *room);
-    q = calloc(R * C + 1, sizeof *q);
-    t = calloc(R * K + 1, sizeof *t);
-    order = malloc((C + 1) * sizeof *order);
-    rord = malloc((R + 1) * sizeof *rord);
-    kord = malloc((K + 1) * sizeof *kord);
-    if (!stock || !hours || !room || !q || !t || !order || !rord || !kord) {
-        rc = err_set(e, ERR_NOMEM, "out of memory building the supply start plan");
-        goto done;
+static void draft_free(draft_t *f)
+{
+    free(f->q);
+    free(f->t);
+    free(f->stock);
+    free(f->hours);
+    free(f->room);
+    free(f->order);
+    free(f->scratch);
+    free(f->scratch_q);
+    memset(f, 0, sizeof *f);
+}
+
+static int draft_init(const supply_problem_t *p, const build_t *b, draft_t *f, err_t *e)
+{
+    size_t C = b->C, K = b->K, R = b->R;
+
+    memset(f, 0, sizeof *f);
+    f->q = calloc(R * C + 1, sizeof *f->q);
+    f->t = calloc(R * K + 1, sizeof *f->t);
+    f->stock = malloc((b->D * C + 1) * sizeof *f->stock);
+    f->hours = malloc((K + 1) * sizeof *f->hours);
+    f->room = malloc((b->S + 1) * sizeof *f->room);
+    f->order = malloc((C + 1) * sizeof *f->order);
+    f->scratch = malloc((R + K + 1) * sizeof *f->scratch);
+    f->scratch_q = calloc(R * C + 1, sizeof *f->scratch_q);
+    if (!f->q || !f->t || !f->stock || !f->hours || !f->room || !f->order || !f->scratch ||
+        !f->scratch_q) {
+        draft_free(f);
+        return err_set(e, ERR_NOMEM, "out of memory building the supply start plan");
     }
-    memcpy(stock, b->stock_p, b->D * C * sizeof *stock);
-    for (size_t k = 0; k < K; k++) hours[k] = p->trucks[k].hours_s * p->trucks[k].count;
-    for (size_t s = 0; s < S; s++) room[s] = storage_of(p, s);
-    /* Commodities by priority, highest first (insertion sort: C is small). */
+    memcpy(f->stock, b->stock_p, b->D * C * sizeof *f->stock);
+    for (size_t k = 0; k < K; k++) f->hours[k] = p->trucks[k].hours_s * p->trucks[k].count;
+    for (size_t s = 0; s < b->S; s++) f->room[s] = storage_of(p, s);
+    /* Insertion sort: C is small. */
     for (size_t i = 0; i < C; i++) {
         size_t j = i;
-        for (; j > 0 && p->comm[order[j - 1]].priority < p->comm[i].priority; j--)
-            order[j] = order[j - 1];
-        order[j] = i;
+        for (; j > 0 && p->comm[f->order[j - 1]].priority < p->comm[i].priority; j--)
+            f->order[j] = f->order[j - 1];
+        f->order[j] = i;
     }
+    return ERR_OK;
+}
+
+static double pack_kg(const supply_problem_t *p, size_t c)
+{
+    return p->comm[c].pack_units * p->comm[c].unit_kg;
+}
+
+static double pack_m3(const supply_problem_t *p, size_t c)
+{
+    return p->comm[c].pack_units * p->comm[c].unit_m3;
+}
+
+/* Puts up to 'n' packs of c on route r, within stock and storage left. */
+static void draft_take(const supply_problem_t *p, const build_t *b, draft_t *f, size_t r,
+                       size_t c, double n)
+{
+    size_t dc = b->rd[r] * b->C + c, s = b->rs[r];
+
+    n = fmin(n, f->stock[dc]);
+    if (isfinite(f->room[s])) n = fmin(n, floor(f->room[s] / pack_m3(p, c) + 1e-9));
+    if (!(n > 0) || !b->qcol[r * b->C + c]) return;
+    f->q[r * b->C + c] += n;
+    f->stock[dc] -= n;
+    f->room[s] -= n * pack_m3(p, c);
+}
+
+static double draft_got(const build_t *b, const draft_t *f, size_t s, size_t c)
+{
+    double got = 0;
+    for (size_t r = 0; r < b->R; r++)
+        if (b->rs[r] == s) got += f->q[r * b->C + c];
+    return got;
+}
+
+/* Allocation by hand: sites in order, commodities by priority, nearest
+ * depot first, within stock and storage. */
+static void alloc_nearest(const supply_problem_t *p, const build_t *b, draft_t *f)
+{
+    size_t S = b->S, *rord = f->scratch;
+
     for (size_t s = 0; s < S; s++) {
         size_t nr = 0;
-        for (size_t r = 0; r < R; r++) {
-            size_t j = nr++;
-            if (b->rs[r] != s) {
-                nr--;
-                continue;
-            }
-            for (; j > 0 && p->time_s[b->rd[rord[j - 1]] * S + s] > p->time_s[b->rd[r] * S + s];
-                 j--)
+        for (size_t r = 0; r < b->R; r++) {
+            size_t j;
+            if (b->rs[r] != s) continue;
+            for (j = nr++; j > 0 && p->time_s[b->rd[rord[j - 1]] * S + s] >
+                                        p->time_s[b->rd[r] * S + s]; j--)
                 rord[j] = rord[j - 1];
             rord[j] = r;
         }
-        for (size_t i = 0; i < C; i++) {
-            size_t c = order[i];
-            double left = b->need_p[s * C + c], pm3 = p->comm[c].pack_units * p->comm[c].unit_m3;
-            for (size_t j = 0; j < nr && left > 0; j++) {
-                size_t r = rord[j], dc = b->rd[r] * C + c;
-                double take = fmin(left, stock[dc]);
-                if (!b->qcol[r * C + c]) continue;
-                if (isfinite(room[s])) take = fmin(take, floor(room[s] / pm3 + 1e-9));
-                if (!(take > 0)) continue;
-                q[r * C + c] += take;
-                left -= take;
-                stock[dc] -= take;
-                room[s] -= take * pm3;
-            }
+        for (size_t i = 0; i < b->C; i++) {
+            size_t c = f->order[i];
+            for (size_t j = 0; j < nr; j++)
+                draft_take(p, b, f, rord[j], c, b->need_p[s * b->C + c] - draft_got(b, f, s, c));
         }
     }
-    for (size_t r = 0; r < R; r++) {
-        double tt = p->time_s[b->rd[r] * S + b->rs[r]];
-        double kg = 0, m3 = 0, kg_left, m3_left, cap_kg = 0, cap_m3 = 0;
-        size_t nk = 0;
-        for (size_t c = 0; c < C; c++) {
-            kg += q[r * C + c] * p->comm[c].pack_units * p->comm[c].unit_kg;
-            m3 += q[r * C + c] * p->comm[c].pack_units * p->comm[c].unit_m3;
-        }
-        /* Types on this route by cost per kg of payload, cheapest first. */
+}
+
+/* Allocation from the LP relaxation: its packs rounded down (which keeps
+ * need, stock and storage rows satisfied). */
+static void alloc_from_lp(const supply_problem_t *p, const build_t *b, draft_t *f,
+                          const double *x)
+{
+    for (size_t r = 0; r < b->R; r++)
+        for (size_t c = 0; c < b->C; c++)
+            if (b->qcol[r * b->C + c])
+                draft_take(p, b, f, r, c, floor(x[b->qcol[r * b->C + c]] + 1e-6));
+}
+
+/* Load (kg, m3) and capacity (kg, m3) of route r in a draft. */
+static void route_load(const supply_problem_t *p, const build_t *b, const draft_t *f, size_t r,
+                       double *kg, double *m3, double *cap_kg, double *cap_m3)
+{
+    *kg = *m3 = *cap_kg = *cap_m3 = 0;
+    for (size_t c = 0; c < b->C; c++) {
+        *kg += f->q[r * b->C + c] * pack_kg(p, c);
+        *m3 += f->q[r * b->C + c] * pack_m3(p, c);
+    }
+    for (size_t k = 0; k < b->K; k++) {
+        *cap_kg += f->t[r * b->K + k] * p->trucks[k].payload_kg;
+        *cap_m3 += f->t[r * b->K + k] * p->trucks[k].volume_m3;
+    }
+}
+
+/* Trips for the allocated loads: per route, the truck type cheapest per kg
+ * first, within the hours left; a load the trips cannot take is trimmed,
+ * lowest priority first; then spare room on the trips is filled. Trips
+ * already in the draft stay, so a second call only adds what is missing. */
+static void plan_trips(const supply_problem_t *p, const build_t *b, draft_t *f)
+{
+    size_t C = b->C, K = b->K, S = b->S, *kord = f->scratch;
+
+    for (size_t r = 0; r < b->R; r++) {
+        size_t s = b->rs[r], nk = 0;
+        double tt = p->time_s[b->rd[r] * S + s];
+        double kg, m3, kg_left, m3_left, cap_kg, cap_m3;
+        route_load(p, b, f, r, &kg, &m3, &cap_kg, &cap_m3);
         for (size_t k = 0; k < K; k++) {
-            size_t j = nk++;
+            size_t j;
             double ck;
-            if (!b->tcol[r * K + k]) {
-                nk--;
-                continue;
-            }
+            if (!b->tcol[r * K + k]) continue;
             ck = trip_cost(p, &p->trucks[k], tt, 0) / p->trucks[k].payload_kg;
-            for (; j > 0 && trip_cost(p, &p->trucks[kord[j - 1]], tt, 0) /
-                                p->trucks[kord[j - 1]].payload_kg > ck; j--)
+            for (j = nk++; j > 0 && trip_cost(p, &p->trucks[kord[j - 1]], tt, 0) /
+                                        p->trucks[kord[j - 1]].payload_kg > ck; j--)
                 kord[j] = kord[j - 1];
             kord[j] = k;
         }
-        kg_left = kg;
-        m3_left = m3;
+        /* Only what the trips already planned cannot carry needs new trips. */
+        kg_left = kg - cap_kg;
+        m3_left = m3 - cap_m3;
         for (size_t j = 0; j < nk && (kg_left > 0 || m3_left > 0); j++) {
-            size_t k = kord[j];
-            const supply_truck_t *tk = &p->trucks[k];
+            const supply_truck_t *tk = &p->trucks[kord[j]];
             double want = ceil(fmax(kg_left / tk->payload_kg, m3_left / tk->volume_m3) - 1e-9);
-            double can = floor(hours[k] / trip_s(tk, tt) + 1e-9);
-            double n = fmax(0, fmin(want, can));
-            t[r * K + k] = n;
-            hours[k] -= n * trip_s(tk, tt);
+            double n = fmax(0, fmin(want, floor(f->hours[kord[j]] / trip_s(tk, tt) + 1e-9)));
+            f->t[r * K + kord[j]] += n;
+            f->hours[kord[j]] -= n * trip_s(tk, tt);
             kg_left -= n * tk->payload_kg;
             m3_left -= n * tk->volume_m3;
             cap_kg += n * tk->payload_kg;
             cap_m3 += n * tk->volume_m3;
         }
-        /* Trim what the trips cannot take, lowest priority first. */
         for (size_t i = C; i-- > 0 && (kg > cap_kg * (1 + 1e-12) || m3 > cap_m3 * (1 + 1e-12));) {
-            size_t c = order[i];
-            double pk = p->comm[c].pack_units * p->comm[c].unit_kg;
-            double pm = p->comm[c].pack_units * p->comm[c].unit_m3;
-            double drop = ceil(fmax((kg - cap_kg) / pk, (m3 - cap_m3) / pm) - 1e-9);
-            drop = fmax(0, fmin(drop, q[r * C + c]));
-            q[r * C + c] -= drop;
-            kg -= drop * pk;
-            m3 -= drop * pm;
-            stock[b->rd[r] * C + c] += drop;
-            room[b->rs[r]] += drop * pm;
+            size_t c = f->order[i];
+            double drop = ceil(fmax((kg - cap_kg) / pack_kg(p, c), (m3 - cap_m3) / pack_m3(p, c))
+                               - 1e-9);
+            drop = fmax(0, fmin(drop, f->q[r * C + c]));
+            f->q[r * C + c] -= drop;
+            kg -= drop * pack_kg(p, c);
+            m3 -= drop * pack_m3(p, c);
+            f->stock[b->rd[r] * C + c] += drop;
+            f->room[s] += drop * pack_m3(p, c);
         }
-        /* Fill spare room on these trips with what the site still needs. */
         for (size_t i = 0; i < C; i++) {
-            size_t c = order[i], s = b->rs[r];
-            double pk = p->comm[c].pack_units * p->comm[c].unit_kg;
-            double pm = p->comm[c].pack_units * p->comm[c].unit_m3;
-            double got = 0, add;
-            if (!b->qcol[r * C + c]) continue;
-            for (size_t rr = 0; rr < R; rr++)
-                if (b->rs[rr] == s) got += q[rr * C + c];
-            add = fmin(b->need_p[s * C + c] - got, stock[b->rd[r] * C + c]);
-            add = fmin(add, floor((cap_kg - kg) / pk + 1e-9));
-            add = fmin(add, floor((cap_m3 - m3) / pm + 1e-9));
-            if (isfinite(room[s])) add = fmin(add, floor(room[s] / pm + 1e-9));
+            size_t c = f->order[i];
+            double add = b->need_p[s * C + c] - draft_got(b, f, s, c);
+            add = fmin(add, floor((cap_kg - kg) / pack_kg(p, c) + 1e-9));
+            add = fmin(add, floor((cap_m3 - m3) / pack_m3(p, c) + 1e-9));
             if (!(add > 0)) continue;
-            q[r * C + c] += add;
-            kg += add * pk;
-            m3 += add * pm;
-            stock[b->rd[r] * C + c] -= add;
-            room[s] -= add * pm;
+            double before = f->q[r * C + c];
+            draft_take(p, b, f, r, c, add);
+            kg += (f->q[r * C + c] - before) * pack_kg(p, c);
+            m3 += (f->q[r * C + c] - before) * pack_m3(p, c);
         }
     }
-    memset(x, 0, ((size_t)b->ncols + 1) * sizeof *x);
-    for (size_t i = 0; i < R * C; i++)
-        if (b->qcol[i]) x[b->qcol[i]] = q[i];
-    for (size_t i = 0; i < R * K; i++)
-        if (b->tcol[i]) x[b->tcol[i]] = t[i];
+}
+
+/* Local search on a draft: a route whose whole load fits in the spare room
+ * of other routes into the same site (from depots with stock left) is closed
+ * and its trips go back to the fleet. One pass in route order; that is enough
+ * to undo most of the splits that rounding the LP leaves. */
+static void merge_routes(const supply_problem_t *p, const build_t *b, draft_t *f)
+{
+    size_t C = b->C, K = b->K, S = b->S;
+
+    for (size_t r = 0; r < b->R; r++) {
+        size_t s = b->rs[r];
+        double trips = 0;
+        double *moved = f->scratch_q;
+        int ok = 1;
+        for (size_t k = 0; k < K; k++) trips += f->t[r * K + k];
+        if (trips < 0.5) continue;
+        memset(moved, 0, b->R * C * sizeof *moved);
+        for (size_t c = 0; c < C && ok; c++) {
+            double left = f->q[r * C + c];
+            for (size_t r2 = 0; r2 < b->R && left > 0; r2++) {
+                double kg2, m32, ck2, cm2, n;
+                if (r2 == r || b->rs[r2] != s || !b->qcol[r2 * C + c]) continue;
+                route_load(p, b, f, r2, &kg2, &m32, &ck2, &cm2);
+                for (size_t cc = 0; cc < C; cc++) {
+                    kg2 += moved[r2 * C + cc] * pack_kg(p, cc);
+                    m32 += moved[r2 * C + cc] * pack_m3(p, cc);
+                }
+                /* Each depot appears once among the routes into s. */
+                n = fmin(left, f->stock[b->rd[r2] * C + c]);
+                n = fmin(n, floor((ck2 - kg2) / pack_kg(p, c) + 1e-9));
+                n = fmin(n, floor((cm2 - m32) / pack_m3(p, c) + 1e-9));
+                if (!(n > 0)) continue;
+                moved[r2 * C + c] += n;
+                left -= n;
+            }
+            ok = !(left > 0);
+        }
+        if (!ok) continue;
+        /* Commit: stock moves between depots; the site's volume is unchanged. */
+        for (size_t r2 = 0; r2 < b->R; r2++)
+            for (size_t c = 0; c < C; c++) {
+                double n = moved[r2 * C + c];
+                if (!(n > 0)) continue;
+                f->q[r2 * C + c] += n;
+                f->stock[b->rd[r2] * C + c] -= n;
+            }
+        for (size_t c = 0; c < C; c++) {
+            f->stock[b->rd[r] * C + c] += f->q[r * C + c];
+            f->q[r * C + c] = 0;
+        }
+        for (size_t k = 0; k < K; k++) {
+            double tt = p->time_s[b->rd[r] * S + s];
+            f->hours[k] += f->t[r * K + k] * trip_s(&p->trucks[k], tt);
+            f->t[r * K + k] = 0;
+        }
+    }
+}
+
+/* Objective of a draft, and its start vector x[1..ncols] when x is not NULL. */
+static double draft_cost(const supply_problem_t *p, const build_t *b, const draft_t *f,
+                         double penalty, double *x)
+{
+    size_t C = b->C, K = b->K, S = b->S;
+    double cost = 0;
+
+    if (x != NULL) memset(x, 0, ((size_t)b->ncols + 1) * sizeof *x);
+    for (size_t r = 0; r < b->R; r++) {
+        size_t ds = b->rd[r] * S + b->rs[r];
+        for (size_t k = 0; k < K; k++) {
+            if (!b->tcol[r * K + k]) continue;
+            cost += f->t[r * K + k] *
+                    trip_cost(p, &p->trucks[k], p->time_s[ds], p->dist_m ? p->dist_m[ds] : 0);
+            if (x != NULL) x[b->tcol[r * K + k]] = f->t[r * K + k];
+        }
+        for (size_t c = 0; c < C; c++)
+            if (x != NULL && b->qcol[r * C + c]) x[b->qcol[r * C + c]] = f->q[r * C + c];
+    }
     for (size_t s = 0; s < S; s++)
         for (size_t c = 0; c < C; c++) {
-            double got = 0;
+            double u;
             if (!b->ucol[s * C + c]) continue;
-            for (size_t r = 0; r < R; r++)
-                if (b->rs[r] == s) got += q[r * C + c];
-            x[b->ucol[s * C + c]] = b->need_p[s * C + c] - got;
+            u = b->need_p[s * C + c] - draft_got(b, f, s, c);
+            cost += u * penalty * p->comm[c].priority * p->comm[c].pack_units;
+            if (x != NULL) x[b->ucol[s * C + c]] = u;
         }
+    return cost;
+}
+
+/* The starting plan handed to GLPK: the better of two drafts, one allocated
+ * nearest-depot-first, one from the LP relaxation rounded down; both get
+ * their trips from plan_trips, so both keep every row. 'o' limits the LP. */
+static int make_start(const supply_problem_t *p, const build_t *b, const solver_opts_t *o,
+                      double penalty, double *x, double *cost, double *lp_s, err_t *e)
+{
+    draft_t f;
+    build_t bl;
+    solver_mip_t *lp = NULL;
+    solver_result_t lr;
+    double pen_lp, c2;
+    int rc;
+
+    memset(&bl, 0, sizeof bl);
+    memset(&lr, 0, sizeof lr);
+    if ((rc = draft_init(p, b, &f, e))) return rc;
+    alloc_nearest(p, b, &f);
+    plan_trips(p, b, &f);
+    merge_routes(p, b, &f);
+    alloc_nearest(p, b, &f);   /* hours freed by merging may carry more */
+    plan_trips(p, b, &f);
+    *cost = draft_cost(p, b, &f, penalty, x);
+    draft_free(&f);
+
+    /* The relaxation is built by the same code, so its columns match b's. */
+    if ((rc = find_routes(p, &bl, e))) goto done;
+    if ((rc = solver_mip_new("supply LP relaxation", SOLVER_MIN, &lp, e))) goto done;
+    if ((rc = build_mip(p, &bl, lp, 1, &pen_lp, e))) goto done;
+    if ((rc = solver_solve(lp, o, NULL, &lr, e))) goto done;
+    *lp_s = lr.seconds;
+    if (lr.x == NULL || bl.ncols != b->ncols) goto done;   /* no LP plan: keep the first */
+    if ((rc = draft_init(p, b, &f, e))) goto done;
+    alloc_from_lp(p, b, &f, lr.x);
+    plan_trips(p, b, &f);
+    merge_routes(p, b, &f);
+    alloc_nearest(p, b, &f);   /* hours freed by merging may carry more */
+    plan_trips(p, b, &f);
+    c2 = draft_cost(p, b, &f, penalty, NULL);
+    if (c2 < *cost) *cost = draft_cost(p, b, &f, penalty, x);
+    draft_free(&f);
 done:
-    free(stock);
-    free(hours);
-    free(room);
-    free(q);
-    free(t);
-    free(order);
-    free(rord);
-    free(kord);
+    solver_result_destroy(&lr);
+    solver_mip_free(lp);
+    build_free(&bl);
     return rc;
 }
 
@@ -642,7 +823,8 @@ static int read_plan(const supply_problem_t *p, const build_t *b, const double *
         o->packs = calloc(C + 1, sizeof *o->packs);
         nr++;
         res->n_routes = nr;
-        if (!o->trips || !o->packs) return err_set(e, ERR_NOMEM, "out of memory reading the supply plan");
+        if (!o->trips || !o->packs)
+            return err_set(e, ERR_NOMEM, "out of memory reading the supply plan");
         for (size_t k = 0; k < K; k++) {
             double n = b->tcol[r * K + k] ? whole(x[b->tcol[r * K + k]]) : 0;
             o->trips[k] = n;
@@ -698,7 +880,8 @@ int supply_solve(const supply_problem_t *p, const solver_opts_t *o, supply_resul
     build_t b;
     solver_mip_t *m = NULL;
     solver_result_t sr;
-    double *start = NULL, penalty = 0;
+    solver_opts_t mo;
+    double *start = NULL, penalty = 0, lp_s = 0;
     int rc = ERR_OK;
 
     memset(&b, 0, sizeof b);
@@ -709,7 +892,7 @@ int supply_solve(const supply_problem_t *p, const solver_opts_t *o, supply_resul
     if ((rc = supply_check(p, e))) goto done;
     if ((rc = find_routes(p, &b, e))) goto done;
     if ((rc = solver_mip_new("supply", SOLVER_MIN, &m, e))) goto done;
-    if ((rc = build_mip(p, &b, m, &penalty, e))) goto done;
+    if ((rc = build_mip(p, &b, m, 0, &penalty, e))) goto done;
     res->penalty = penalty;
     add_warnings(p, &b, res);
 
@@ -725,18 +908,32 @@ int supply_solve(const supply_problem_t *p, const solver_opts_t *o, supply_resul
         rc = err_set(e, ERR_NOMEM, "out of memory building the supply model");
         goto done;
     }
-    if ((rc = greedy_start(p, &b, start, e))) goto done;
-    if ((rc = solver_solve(m, o, start, &sr, e))) goto done;
+    if ((rc = make_start(p, &b, o, penalty, start, &res->start_objective, &lp_s, e))) goto done;
+    /* The time limit covers the relaxation and the MIP together. */
+    mo = *o;
+    if (mo.time_limit_s > 0) mo.time_limit_s = fmax(1.0, mo.time_limit_s - lp_s);
+    if ((rc = solver_solve(m, &mo, start, &sr, e))) goto done;
     res->status = sr.status;
     res->objective = sr.objective;
     res->bound = sr.bound;
     res->gap = sr.gap;
     res->nodes = sr.nodes;
-    res->seconds = sr.seconds;
+    res->seconds = sr.seconds + lp_s;   /* the relaxation for the start counts too */
     if (sr.status == SOLVER_INFEASIBLE || sr.status == SOLVER_UNBOUNDED) {
         /* Shortage columns make every instance feasible and costs are >= 0. */
         rc = err_set(e, ERR_INTERNAL, "supply model came back %s; this is a bug",
                      solver_status_name(sr.status));
+        goto done;
+    }
+    if (sr.status == SOLVER_NO_PLAN) {
+        /* Stopped before GLPK took the start: the start is the plan. */
+        res->status = SOLVER_FEASIBLE;
+        res->objective = res->start_objective;
+        res->gap = isfinite(sr.bound) ? fabs(res->objective - sr.bound) /
+                                            fmax(fabs(res->objective), 1e-9) : INFINITY;
+        warn_add(&res->warnings, "the solver stopped at its time limit before improving the "
+                 "starting plan; the plan is the heuristic one");
+        rc = read_plan(p, &b, start, penalty, res, e);
         goto done;
     }
     rc = read_plan(p, &b, sr.x, penalty, res, e);
@@ -749,6 +946,7 @@ done:
     return rc;
 }
 
+/* Frees what a result owns and leaves it empty; NULL-safe, may run twice. */
 void supply_result_destroy(supply_result_t *r)
 {
     if (r == NULL) return;
@@ -768,6 +966,7 @@ void supply_result_destroy(supply_result_t *r)
     r->n_routes = r->n_lines = 0;
 }
 
+/* Short name of a shortage reason, as used in reports and docs/supply.md. */
 const char *supply_reason_name(int reason)
 {
     switch (reason) {
