@@ -17,6 +17,10 @@ static const cli_command_t commands[] = {
      cmd_check},
     {"reach", "travel times to the nearest site, catchments, people by time band",
      cmd_reach_usage, 1, cmd_reach},
+    {"supply", "stock per site and truck trips from the depots, for the existing sites",
+     cmd_supply_usage, 1, cmd_supply},
+    {"plan", "the whole job: check, reach, new sites, stock and shipments, report",
+     cmd_plan_usage, 1, cmd_plan},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 
