@@ -79,8 +79,8 @@ static int plan_site_step(const inputs_t *in, network_t *net, const reach_result
 }
 /* ---- end of the wiring point ------------------------------------------------- */
 
-static void print_plan(const inputs_t *in, const plan_sites_t *ps, const reach_result_t *before,
-                       const supply_stage_t *sup, const warn_list_t *notes, int full,
+static void print_plan(const inputs_t *in, const districts_t *d, const plan_sites_t *ps,
+                       const reach_result_t *before, const supply_stage_t *sup, const warn_list_t *notes, int full,
                        const char *outdir)
 {
     double total = in->grid->total_people;
@@ -99,7 +99,7 @@ static void print_plan(const inputs_t *in, const plan_sites_t *ps, const reach_r
                ps->ran ? "" : " (no site selection)");
     else
         printf("\n");
-    if (before != NULL) reach_print(in, in->existing, NULL, before);
+    if (before != NULL) reach_print(in, in->existing, d, before);
     if (sup != NULL) supply_stage_print(in, ps->sites, sup);
     else printf("stock and shipments: skipped (the scenario has no 'supply' section)\n");
     printf("outputs in %s\n%s\n", outdir, summary_caution_text);
@@ -226,7 +226,7 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
         if (text != NULL) puts(text);
         cJSON_free(text);
     } else if (!o->quiet) {
-        print_plan(in, &ps, have_before ? &before : NULL, have_sup ? &sup : NULL, &notes, full,
+        print_plan(in, d, &ps, have_before ? &before : NULL, have_sup ? &sup : NULL, &notes, full,
                    o->outdir);
     }
 done:

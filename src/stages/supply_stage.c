@@ -654,6 +654,15 @@ void supply_stage_print(const inputs_t *in, const points_t *sites, const supply_
     size_t C = st->n_comm;
     int any = 0;
 
+    {
+        double persons = 0;
+        for (size_t s = 0; s < st->n_sites; s++) persons += st->persons[s];
+        printf("people supplied: %.0f of %.0f (%s)\n", persons, in->grid->total_people,
+               st->assignment == SUPPLY_STAGE_CAPACITY
+                   ? "capacity-aware assignment within the time limit"
+                   : st->assignment == SUPPLY_STAGE_NEAREST ? "everyone whose nearest site it is"
+                                                            : "as the site stage assigned them");
+    }
     printf("stock per site for %g days of cover%s, buffer %g%% (whole packs):\n",
            st->policy.cover_s / STOCK_DAY_S,
            st->policy.lead_s > 0 ? " plus lead time" : "", 100 * st->policy.buffer);
