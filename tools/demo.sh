@@ -44,7 +44,7 @@ step() {
 
 step check "$bin" check "$scenario"
 step reach "$bin" reach "$scenario" -o "$out/reach"
-# Later stages add one line each, e.g.:
-# step plan "$bin" plan "$scenario" -o "$out"
+# The whole job (docs/plan.md): reach, site selection when merged, stock and shipments.
+step plan "$bin" plan "$scenario" -o "$out"
 
 echo "demo: all $n steps done; results (if any) in $out"
