@@ -2,10 +2,11 @@
  * VEHICLE road network, for the shipment plan. Roads only: a directed igraph_t
  * over the road nodes of roads_t, one edge per direction a vehicle may drive
  * (one-ways honoured; classes with vehicle speed 0 are closed), weight = seconds
- * at the class's vehicle speed. Each point joins the nearest road node that a
- * vehicle can use by a straight access leg driven at 'access_mps' (a slow,
- * walking-pace stretch; docs/plan.md), up to 'max_access_m'. Times are seconds,
- * lengths metres; INFINITY where no road joins the two. Wraps igraph. */
+ * at the class's vehicle speed. Each point joins the nearest point of the
+ * nearest segment open to vehicles (splitting it there) by a straight access
+ * leg driven at 'access_mps' (a slow, walking-pace stretch; docs/plan.md), up
+ * to 'max_access_m'. Times are seconds, lengths metres; INFINITY where no road
+ * joins the two. Wraps igraph. */
 #ifndef DEPOTS_H
 #define DEPOTS_H
 
@@ -20,9 +21,9 @@ typedef struct depots_travel {
     double *out_s;          /* [f * n_to + t] seconds from point f to point t */
     double *back_s;         /* [f * n_to + t] seconds from point t back to point f */
     double *out_m, *back_m; /* the same in metres (access legs included) */
-    int64_t *from_node;     /* [f] road node joined, -1 when none within max_access_m */
-    int64_t *to_node;       /* [t] likewise */
-    double *from_access_m;  /* [f] straight-line access leg, metres (INFINITY when none) */
+    int64_t *from_seg;      /* [f] road segment joined, -1 when none within max_access_m */
+    int64_t *to_seg;        /* [t] likewise */
+    double *from_access_m;  /* [f] straight access leg to that segment, metres (INFINITY: none) */
     double *to_access_m;    /* [t] likewise */
 } depots_travel_t;
 

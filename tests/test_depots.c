@@ -54,11 +54,11 @@ static void test_hand_worked(void)
 
     make_roads(&r);
     CHECK(depots_travel(&r, 0, dx, dy, 1, sx, sy, 4, ap, 500, &t, &e) == ERR_OK);
-    CHECK(t.from_node[0] == 0);
+    CHECK(t.from_seg[0] == 0);
     CHECK_NEAR(t.from_access_m[0], 10, 1e-9);
     /* Site 0 joins C by 20 m. Out: 10 m + 20 m at 5 km/h = 21.6 s, plus A-B-C
      * 2000 m at 10 m/s = 200 s: 221.6 s over 2030 m. */
-    CHECK(t.to_node[0] == 2);
+    CHECK(t.to_seg[0] == 1 || t.to_seg[0] == 4);   /* at C, where both end */
     CHECK_NEAR(t.out_s[0], 221.6, 1e-9);
     CHECK_NEAR(t.out_m[0], 2030, 1e-9);
     /* Back: B -> C is one way, so C-F-B on the track (2 x 1118.034 m at 5 m/s =
@@ -67,10 +67,10 @@ static void test_hand_worked(void)
     CHECK_NEAR(t.back_m[0], 2 * diag + 1000 + 30, 1e-9);
     /* Site 1 stands at D, but D lies only on a footway: the nearest vehicle node
      * is C, 1000 m away, beyond the 500 m allowed: no road. */
-    CHECK(t.to_node[1] == -1);
+    CHECK(t.to_seg[1] == -1);
     CHECK(isinf(t.out_s[1]) && isinf(t.back_s[1]) && isinf(t.out_m[1]));
     /* Site 2 joins H on the island: no path. */
-    CHECK(t.to_node[2] == 6);
+    CHECK(t.to_seg[2] == 5);
     CHECK(isinf(t.out_s[2]) && isinf(t.back_s[2]));
     /* Site 3 stands on A: only the depot's 10 m leg, 7.2 s. */
     CHECK_NEAR(t.out_s[3], 7.2, 1e-9);
@@ -80,7 +80,7 @@ static void test_hand_worked(void)
 
     /* With 1500 m allowed, site 1 joins C by a 1000 m leg (720 s at 5 km/h). */
     CHECK(depots_travel(&r, 0, dx, dy, 1, sx, sy, 4, ap, 1500, &t, &e) == ERR_OK);
-    CHECK(t.to_node[1] == 2);
+    CHECK(t.to_seg[1] == 1 || t.to_seg[1] == 4);
     CHECK_NEAR(t.out_s[1], 200 + (10 + 1000) / ap, 1e-9);
     depots_travel_destroy(&t);
 
@@ -89,6 +89,47 @@ static void test_hand_worked(void)
     CHECK_NEAR(t.out_s[0], 2 * diag / 5 + 100 + 21.6, 1e-9);
     CHECK_NEAR(t.back_s[0], 221.6, 1e-9);
     depots_travel_destroy(&t);
+}
+
+/* Points between nodes join the nearest point of the segment, which splits it. */
+static void test_on_segment(void)
+{
+    roads_t r;
+    depots_travel_t t;
+    err_t e = {0};
+    double dx[] = {0}, dy[] = {-10};
+    double sx[] = {500, 1500, 300}, sy[] = {30, -30, -5};
+    double ap = 5 / 3.6, diag = hypot(500, 1000);
+
+    make_roads(&r);
+    CHECK(depots_travel(&r, 0, dx, dy, 1, sx, sy, 3, ap, 500, &t, &e) == ERR_OK);
+    /* Site 0 at (500, 30) joins A-B halfway, 30 m off: 500 m at 10 m/s = 50 s,
+     * plus (10 + 30) m at 5 km/h = 28.8 s. */
+    CHECK(t.to_seg[0] == 0);
+    CHECK_NEAR(t.to_access_m[0], 30, 1e-9);
+    CHECK_NEAR(t.out_s[0], 78.8, 1e-9);
+    CHECK_NEAR(t.back_s[0], 78.8, 1e-9);
+    CHECK_NEAR(t.out_m[0], 540, 1e-9);
+    /* Site 1 at (1500, -30) joins the one-way B -> C halfway: out A-B-p = 150 s;
+     * back it must drive on to C (50 s), then C-F-B (447.214 s) and B-A (100 s). */
+    CHECK(t.to_seg[1] == 1);
+    CHECK_NEAR(t.out_s[1], 150 + 28.8, 1e-9);
+    CHECK_NEAR(t.back_s[1], 50 + 2 * diag / 5 + 100 + 28.8, 1e-9);
+    /* Site 2 at (300, -5) shares A-B with the depot's joint at A: 300 m = 30 s
+     * plus (10 + 5) m at 5 km/h = 10.8 s. */
+    CHECK_NEAR(t.out_s[2], 40.8, 1e-9);
+    depots_travel_destroy(&t);
+
+    /* Two points on one segment reach each other along it, not via its ends:
+     * depot at (200, 10), site at (700, -10) on A-B: 500 m = 50 s + 20 m (14.4 s). */
+    {
+        double ex[] = {200}, ey[] = {10}, fx[] = {700}, fy[] = {-10};
+        CHECK(depots_travel(&r, 0, ex, ey, 1, fx, fy, 1, ap, 500, &t, &e) == ERR_OK);
+        CHECK_NEAR(t.out_s[0], 64.4, 1e-9);
+        CHECK_NEAR(t.back_s[0], 64.4, 1e-9);
+        CHECK_NEAR(t.out_m[0], 520, 1e-9);
+        depots_travel_destroy(&t);
+    }
 }
 
 /* Lon/lat roads: the access legs are geodesic. 0.001 degree of latitude at the
@@ -131,7 +172,7 @@ static void test_edges_and_errors(void)
 
     /* No roads at all: every time is INFINITY, not an error. */
     CHECK(depots_travel(NULL, 0, px, py, 1, px, py, 1, 1, 100, &t, &e) == ERR_OK);
-    CHECK(isinf(t.out_s[0]) && t.from_node[0] == -1);
+    CHECK(isinf(t.out_s[0]) && t.from_seg[0] == -1);
     depots_travel_destroy(&t);
     /* No depots: an empty matrix. */
     make_roads(&r);
@@ -155,6 +196,7 @@ int main(void)
     /* Unreachable islands are expected here; main does the same for the CLI. */
     igraph_set_warning_handler(igraph_warning_handler_ignore);
     test_hand_worked();
+    test_on_segment();
     test_geographic();
     test_edges_and_errors();
     return CHECK_DONE("test_depots");

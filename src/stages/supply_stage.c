@@ -200,12 +200,12 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
         st->dist_m[i] = ok ? (st->travel.out_m[i] + st->travel.back_m[i]) / 2 : 0;
     }
     for (size_t d = 0; d < D; d++)
-        if (st->travel.from_node[d] < 0)
+        if (st->travel.from_seg[d] < 0)
             warn_add(&st->warnings, "depot '%s' is more than %g m from any road open to "
                      "vehicles: it cannot send anything (supply.max_access_m)",
                      in->depots->id[d], x->max_access_m);
     for (size_t s = 0; s < S; s++)
-        if (st->travel.to_node[s] < 0)
+        if (st->travel.to_seg[s] < 0)
             warn_add(&st->warnings, "site '%s' is more than %g m from any road open to vehicles: "
                      "nothing can be trucked there (supply.max_access_m)", sites->id[s],
                      x->max_access_m);

@@ -1,8 +1,10 @@
 /* depots: depot <-> site travel on the vehicle road network (see include/depots.h).
  * The graph holds road nodes only (no cells: trucks do not drive across fields),
- * so it is small next to the travel network; it is built once per call. A path
- * is found by igraph's Dijkstra on time, then walked back through the inbound
- * edge of each node to add up both its time and its length. */
+ * so it is small next to the travel network; it is built once per call. Each
+ * depot and site gets its own vertex at the nearest point of the nearest
+ * segment open to vehicles, which splits that segment. A path is found by
+ * igraph's Dijkstra on time, then walked back through the inbound edge of each
+ * vertex to add up both its time and its length. */
 #include "depots.h"
 
 #include <math.h>
@@ -20,8 +22,8 @@ void depots_travel_destroy(depots_travel_t *t)
     free(t->back_s);
     free(t->out_m);
     free(t->back_m);
-    free(t->from_node);
-    free(t->to_node);
+    free(t->from_seg);
+    free(t->to_seg);
     free(t->from_access_m);
     free(t->to_access_m);
     memset(t, 0, sizeof *t);
@@ -34,32 +36,64 @@ static double dist_m(int geographic, double x1, double y1, double x2, double y2)
     return hypot(x2 - x1, y2 - y1);
 }
 
-/* Nearest node with usable[] set; planar search (lon/lat scaled by the cosine
- * of the latitude, good enough to rank neighbours), true distance after. */
-static void snap(const roads_t *r, const uint8_t *usable, int geographic, double x, double y,
-                 double max_m, int64_t *node, double *access_m)
+/* The nearest point to (x, y) on a segment open to vehicles: planar search
+ * (lon/lat: x scaled by the cosine of the latitude, good enough to rank
+ * neighbours), then the true distance (geodesic on lon/lat) to that point.
+ * *seg = -1 when no open segment lies within max_m. */
+static void snap(const roads_t *r, const uint8_t *open, int geographic, double x, double y,
+                 double max_m, int64_t *seg, double *frac, double *access_m)
 {
-    double best = INFINITY, kx = geographic ? cos(y * M_PI / 180.0) : 1.0;
+    double best = INFINITY, bpx = 0, bpy = 0, bf = 0;
+    double kx = geographic ? cos(y * M_PI / 180.0) : 1.0;
     int64_t bi = -1;
 
-    for (size_t i = 0; i < r->n_nodes; i++) {
-        double dx, dy, d2;
-        if (!usable[i]) continue;
-        dx = (r->x[i] - x) * kx;
-        dy = r->y[i] - y;
-        d2 = dx * dx + dy * dy;
+    for (size_t i = 0; i < r->n_segs; i++) {
+        const road_seg_t *s = &r->segs[i];
+        double ax, ay, dx, dy, l2, t, px, py, d2;
+        if (!open[i]) continue;
+        ax = (r->x[s->a] - x) * kx;
+        ay = r->y[s->a] - y;
+        dx = (r->x[s->b] - x) * kx - ax;
+        dy = r->y[s->b] - y - ay;
+        l2 = dx * dx + dy * dy;
+        t = l2 > 0 ? -(ax * dx + ay * dy) / l2 : 0;
+        t = t < 0 ? 0 : t > 1 ? 1 : t;
+        px = ax + t * dx;
+        py = ay + t * dy;
+        d2 = px * px + py * py;
         if (d2 < best) {
             best = d2;
             bi = (int64_t)i;
+            bf = t;
+            bpx = px;
+            bpy = py;
         }
     }
-    *node = -1;
+    *seg = -1;
+    *frac = 0;
     *access_m = INFINITY;
     if (bi < 0) return;
-    best = dist_m(geographic, x, y, r->x[bi], r->y[bi]);
+    best = dist_m(geographic, x, y, x + bpx / kx, y + bpy);
     if (best > max_m) return;
-    *node = bi;
+    *seg = bi;
+    *frac = bf;
     *access_m = best;
+}
+
+/* A point joined to the road network: its own vertex on segment 'seg' at
+ * fraction 'f' from node a to node b. */
+typedef struct joint {
+    int64_t seg;
+    double f;
+    igraph_integer_t vertex;
+} joint_t;
+
+static int joint_cmp(const void *pa, const void *pb)
+{
+    const joint_t *a = pa, *b = pb;
+    if (a->seg != b->seg) return a->seg < b->seg ? -1 : 1;
+    if (a->f != b->f) return a->f < b->f ? -1 : 1;
+    return a->vertex < b->vertex ? -1 : a->vertex > b->vertex;
 }
 
 typedef struct vgraph {
@@ -68,7 +102,7 @@ typedef struct vgraph {
     igraph_vector_t w;      /* seconds per edge */
     int have_w;
     double *len;            /* metres per edge */
-    uint8_t *usable;        /* per road node: touched by a vehicle edge */
+    size_t n_len, cap_len;
 } vgraph_t;
 
 static void vgraph_destroy(vgraph_t *v)
@@ -76,20 +110,37 @@ static void vgraph_destroy(vgraph_t *v)
     if (v->have_g) igraph_destroy(&v->g);
     if (v->have_w) igraph_vector_destroy(&v->w);
     free(v->len);
-    free(v->usable);
 }
 
-static int vgraph_build(const roads_t *r, vgraph_t *v, err_t *e)
+static int add_edge(vgraph_t *v, igraph_vector_int_t *el, igraph_integer_t a, igraph_integer_t b,
+                    double t, double m)
+{
+    if (v->n_len == v->cap_len) {
+        size_t cap = v->cap_len ? 2 * v->cap_len : 64;
+        double *p = realloc(v->len, cap * sizeof *p);
+        if (p == NULL) return ERR_NOMEM;
+        v->len = p;
+        v->cap_len = cap;
+    }
+    if (igraph_vector_int_push_back(el, a) || igraph_vector_int_push_back(el, b) ||
+        igraph_vector_push_back(&v->w, t))
+        return ERR_NOMEM;
+    v->len[v->n_len++] = m;
+    return ERR_OK;
+}
+
+/* The graph: road nodes 0..n_nodes-1, then one vertex per point (n_pts).
+ * A segment holding joints (j, sorted by segment and fraction) becomes a chain
+ * a -> joints by fraction -> b, so two points on one segment reach each other
+ * along it; 'ends' are points joined at a node. */
+static int vgraph_build(const roads_t *r, const uint8_t *open, const joint_t *j, size_t n_j,
+                        const joint_t *ends, size_t n_ends, size_t n_pts, vgraph_t *v, err_t *e)
 {
     igraph_vector_int_t el;
-    size_t n_e = 0;
     int have_el = 0, rc = ERR_OK;
+    size_t k = 0;
     igraph_error_t ie;
 
-    v->usable = calloc(r->n_nodes ? r->n_nodes : 1, 1);
-    v->len = malloc((2 * r->n_segs + 1) * sizeof *v->len);
-    if (v->usable == NULL || v->len == NULL)
-        return err_set(e, ERR_NOMEM, "out of memory for the vehicle road graph");
     if (igraph_vector_int_init(&el, 0) != IGRAPH_SUCCESS)
         return err_set(e, ERR_NOMEM, "out of memory for the vehicle road graph");
     have_el = 1;
@@ -100,29 +151,34 @@ static int vgraph_build(const roads_t *r, vgraph_t *v, err_t *e)
     v->have_w = 1;
     for (size_t i = 0; i < r->n_segs; i++) {
         const road_seg_t *s = &r->segs[i];
-        double mps, t;
-        if (s->a < 0 || s->b < 0 || (size_t)s->a >= r->n_nodes || (size_t)s->b >= r->n_nodes ||
-            s->cls < 0 || (size_t)s->cls >= r->n_classes) {
-            rc = err_set(e, ERR_INPUT, "road segment %zu names a node or class that does not "
-                         "exist", i);
-            goto done;
-        }
-        mps = r->classes[s->cls].vehicle_mps;
-        if (!(mps > 0) || !(s->length_m > 0)) continue;   /* closed to vehicles */
-        t = s->length_m / mps;
-        for (int dir = 0; dir < 2; dir++) {
-            int32_t a = dir ? s->b : s->a, b = dir ? s->a : s->b;
-            if (dir && (s->flags & ROAD_ONEWAY)) break;   /* one way: a -> b only */
-            if (igraph_vector_int_push_back(&el, a) || igraph_vector_int_push_back(&el, b) ||
-                igraph_vector_push_back(&v->w, t)) {
+        double mps = r->classes[s->cls].vehicle_mps, fu = 0;
+        igraph_integer_t u = s->a;
+        if (!open[i]) continue;
+        /* Walk the chain; the last link ends at node b (fraction 1). */
+        for (;;) {
+            int last = !(k < n_j && j[k].seg == (int64_t)i);
+            igraph_integer_t w = last ? s->b : j[k].vertex;
+            double fw = last ? 1 : j[k].f, m = (fw - fu) * s->length_m;
+            if (add_edge(v, &el, u, w, m / mps, m) != ERR_OK ||
+                (!(s->flags & ROAD_ONEWAY) && add_edge(v, &el, w, u, m / mps, m) != ERR_OK)) {
                 rc = err_set(e, ERR_NOMEM, "out of memory for the vehicle road graph");
                 goto done;
             }
-            v->len[n_e++] = s->length_m;
+            if (last) break;
+            u = w;
+            fu = fw;
+            k++;
         }
-        v->usable[s->a] = v->usable[s->b] = 1;
     }
-    ie = igraph_create(&v->g, &el, (igraph_integer_t)r->n_nodes, IGRAPH_DIRECTED);
+    /* A point whose nearest road point is a node joins that node itself, in
+     * both directions: every road into the node reaches it. 'seg' holds the node. */
+    for (size_t i = 0; i < n_ends; i++)
+        if (add_edge(v, &el, ends[i].vertex, (igraph_integer_t)ends[i].seg, 0, 0) != ERR_OK ||
+            add_edge(v, &el, (igraph_integer_t)ends[i].seg, ends[i].vertex, 0, 0) != ERR_OK) {
+            rc = err_set(e, ERR_NOMEM, "out of memory for the vehicle road graph");
+            goto done;
+        }
+    ie = igraph_create(&v->g, &el, (igraph_integer_t)(r->n_nodes + n_pts), IGRAPH_DIRECTED);
     if (ie != IGRAPH_SUCCESS) {
         rc = err_set(e, ERR_GRAPH, "building the vehicle road graph: %s", igraph_strerror(ie));
         goto done;
@@ -133,11 +189,12 @@ done:
     return rc;
 }
 
-/* One Dijkstra from road node 'src' ('mode' OUT: from src to every node; IN:
- * from every node to src); for each target t with a node, the path's time and
- * length into time[t], len[t] (access legs not included). */
-static int from_one(const vgraph_t *v, int64_t src, igraph_neimode_t mode,
-                    const int64_t *to_node, size_t n_to, double *time, double *len, err_t *e)
+/* One Dijkstra from vertex 'src' ('mode' OUT: from src to every vertex; IN:
+ * from every vertex to src); for each target vertex to[t] (-1 = none) the
+ * path's time and length into time[t], len[t] (access legs not included). */
+static int from_one(const vgraph_t *v, igraph_integer_t src, igraph_neimode_t mode,
+                    const igraph_integer_t *to, size_t n_to, double *time, double *len,
+                    err_t *e)
 {
     igraph_vector_int_t inb;
     igraph_error_t ie;
@@ -145,18 +202,18 @@ static int from_one(const vgraph_t *v, int64_t src, igraph_neimode_t mode,
 
     if (igraph_vector_int_init(&inb, 0) != IGRAPH_SUCCESS)
         return err_set(e, ERR_NOMEM, "out of memory for vehicle routes");
-    ie = igraph_get_shortest_paths_dijkstra(&v->g, NULL, NULL, (igraph_integer_t)src,
-                                            igraph_vss_all(), &v->w, mode, NULL, &inb);
+    ie = igraph_get_shortest_paths_dijkstra(&v->g, NULL, NULL, src, igraph_vss_all(), &v->w,
+                                            mode, NULL, &inb);
     if (ie != IGRAPH_SUCCESS) {
         igraph_vector_int_destroy(&inb);
-        return err_set(e, ERR_GRAPH, "vehicle routes from road node %lld: %s", (long long)src,
-                       igraph_strerror(ie));
+        return err_set(e, ERR_GRAPH, "vehicle routes from graph vertex %lld: %s",
+                       (long long)src, igraph_strerror(ie));
     }
     for (size_t t = 0; t < n_to; t++) {
-        igraph_integer_t u = (igraph_integer_t)to_node[t], steps = 0;
+        igraph_integer_t u = to[t], steps = 0;
         double ts = 0, lm = 0;
         time[t] = len[t] = INFINITY;
-        if (to_node[t] < 0) continue;
+        if (u < 0) continue;
         /* Walk back to the source; a path has fewer than n edges. */
         while (u != src && steps <= n) {
             igraph_integer_t eid = VECTOR(inb)[u];
@@ -180,8 +237,11 @@ int depots_travel(const roads_t *r, int geographic, const double *fx, const doub
                   double access_mps, double max_access_m, depots_travel_t *out, err_t *e)
 {
     vgraph_t v;
-    size_t nm = n_from * n_to;
-    double *ot = NULL, *om = NULL, *bt = NULL, *bm = NULL;
+    size_t nm = n_from * n_to, n_pts = n_from + n_to, n_j = 0, n_ends = 0;
+    double *ot = NULL, *om = NULL, *bt = NULL, *bm = NULL, *frac = NULL;
+    uint8_t *open = NULL;
+    joint_t *j = NULL, *ends = NULL;
+    igraph_integer_t *to_v = NULL;
     int rc = ERR_OK;
 
     memset(out, 0, sizeof *out);
@@ -198,42 +258,77 @@ int depots_travel(const roads_t *r, int geographic, const double *fx, const doub
     out->back_s = malloc((nm + 1) * sizeof *out->back_s);
     out->out_m = malloc((nm + 1) * sizeof *out->out_m);
     out->back_m = malloc((nm + 1) * sizeof *out->back_m);
-    out->from_node = malloc((n_from + 1) * sizeof *out->from_node);
-    out->to_node = malloc((n_to + 1) * sizeof *out->to_node);
+    out->from_seg = malloc((n_from + 1) * sizeof *out->from_seg);
+    out->to_seg = malloc((n_to + 1) * sizeof *out->to_seg);
     out->from_access_m = malloc((n_from + 1) * sizeof *out->from_access_m);
     out->to_access_m = malloc((n_to + 1) * sizeof *out->to_access_m);
     ot = malloc((n_to + 1) * sizeof *ot);
     om = malloc((n_to + 1) * sizeof *om);
     bt = malloc((n_to + 1) * sizeof *bt);
     bm = malloc((n_to + 1) * sizeof *bm);
-    if (!out->out_s || !out->back_s || !out->out_m || !out->back_m || !out->from_node ||
-        !out->to_node || !out->from_access_m || !out->to_access_m || !ot || !om || !bt || !bm) {
+    frac = malloc((n_pts + 1) * sizeof *frac);
+    j = malloc((n_pts + 1) * sizeof *j);
+    ends = malloc((n_pts + 1) * sizeof *ends);
+    to_v = malloc((n_to + 1) * sizeof *to_v);
+    if (!out->out_s || !out->back_s || !out->out_m || !out->back_m || !out->from_seg ||
+        !out->to_seg || !out->from_access_m || !out->to_access_m || !ot || !om || !bt || !bm ||
+        !frac || !j || !ends || !to_v) {
         rc = err_set(e, ERR_NOMEM, "out of memory for depot travel times");
         goto done;
     }
     for (size_t i = 0; i < nm; i++)
         out->out_s[i] = out->back_s[i] = out->out_m[i] = out->back_m[i] = INFINITY;
     for (size_t f = 0; f < n_from; f++) {
-        out->from_node[f] = -1;
+        out->from_seg[f] = -1;
         out->from_access_m[f] = INFINITY;
     }
     for (size_t t = 0; t < n_to; t++) {
-        out->to_node[t] = -1;
+        out->to_seg[t] = -1;
         out->to_access_m[t] = INFINITY;
     }
-    if (r == NULL || r->n_nodes == 0 || nm == 0) goto done;
-    if ((rc = vgraph_build(r, &v, e)) != ERR_OK) goto done;
-    for (size_t f = 0; f < n_from; f++)
-        snap(r, v.usable, geographic, fx[f], fy[f], max_access_m, &out->from_node[f],
-             &out->from_access_m[f]);
+    if (r == NULL || r->n_segs == 0 || nm == 0) goto done;
+
+    /* Segments open to vehicles; a bad segment is refused before it is read. */
+    open = calloc(r->n_segs, 1);
+    if (open == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory for the vehicle road graph");
+        goto done;
+    }
+    for (size_t i = 0; i < r->n_segs; i++) {
+        const road_seg_t *s = &r->segs[i];
+        if (s->a < 0 || s->b < 0 || (size_t)s->a >= r->n_nodes || (size_t)s->b >= r->n_nodes ||
+            s->cls < 0 || (size_t)s->cls >= r->n_classes) {
+            rc = err_set(e, ERR_INPUT, "road segment %zu names a node or class that does not "
+                         "exist", i);
+            goto done;
+        }
+        open[i] = r->classes[s->cls].vehicle_mps > 0 && s->length_m > 0;
+    }
+    for (size_t k = 0; k < n_pts; k++) {
+        int is_from = k < n_from;
+        size_t i = is_from ? k : k - n_from;
+        int64_t *seg = is_from ? &out->from_seg[i] : &out->to_seg[i];
+        double *acc = is_from ? &out->from_access_m[i] : &out->to_access_m[i];
+        snap(r, open, geographic, is_from ? fx[i] : tx[i], is_from ? fy[i] : ty[i],
+             max_access_m, seg, &frac[k], acc);
+        if (*seg < 0) continue;
+        /* At a segment's end (to 1e-9 of its length): join the node, not the segment. */
+        if (frac[k] <= 1e-9 || frac[k] >= 1 - 1e-9)
+            ends[n_ends++] = (joint_t){frac[k] <= 1e-9 ? r->segs[*seg].a : r->segs[*seg].b, 0,
+                                       (igraph_integer_t)(r->n_nodes + k)};
+        else
+            j[n_j++] = (joint_t){*seg, frac[k], (igraph_integer_t)(r->n_nodes + k)};
+    }
+    qsort(j, n_j, sizeof *j, joint_cmp);
+    if ((rc = vgraph_build(r, open, j, n_j, ends, n_ends, n_pts, &v, e)) != ERR_OK) goto done;
     for (size_t t = 0; t < n_to; t++)
-        snap(r, v.usable, geographic, tx[t], ty[t], max_access_m, &out->to_node[t],
-             &out->to_access_m[t]);
+        to_v[t] = out->to_seg[t] >= 0 ? (igraph_integer_t)(r->n_nodes + n_from + t) : -1;
     for (size_t f = 0; f < n_from; f++) {
+        igraph_integer_t src = (igraph_integer_t)(r->n_nodes + f);
         double af = out->from_access_m[f];
-        if (out->from_node[f] < 0) continue;
-        if ((rc = from_one(&v, out->from_node[f], IGRAPH_OUT, out->to_node, n_to, ot, om, e)) ||
-            (rc = from_one(&v, out->from_node[f], IGRAPH_IN, out->to_node, n_to, bt, bm, e)))
+        if (out->from_seg[f] < 0) continue;
+        if ((rc = from_one(&v, src, IGRAPH_OUT, to_v, n_to, ot, om, e)) ||
+            (rc = from_one(&v, src, IGRAPH_IN, to_v, n_to, bt, bm, e)))
             goto done;
         for (size_t t = 0; t < n_to; t++) {
             double legs = af + out->to_access_m[t];
@@ -254,6 +349,11 @@ done:
     free(om);
     free(bt);
     free(bm);
+    free(frac);
+    free(j);
+    free(ends);
+    free(to_v);
+    free(open);
     if (rc != ERR_OK) depots_travel_destroy(out);
     return rc;
 }

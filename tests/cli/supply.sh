@@ -44,15 +44,15 @@ check_num "S1 kits" "$(col "$O/supply_stock.csv" site_id S1 commodity kit needed
 check_num "S1 kit kg" "$(col "$O/supply_stock.csv" site_id S1 commodity kit kg_needed)" 2200 1e-9
 check_num "S1 kits delivered" "$(col "$O/supply_stock.csv" site_id S1 commodity kit delivered)" 1100 1e-9
 
-# Vehicle travel: D1 stands on the road's west node. S1 (250 m, 250 m) joins that
-# node by a sqrt(200^2 + 800^2) = 824.62 m access leg at 5 km/h = 593.73 s =
-# 9.8955 min. S2 (1750, 1750) joins the east node by sqrt(200^2 + 700^2) =
-# 728.01 m (524.17 s) after 1,900 m of primary road at 60 km/h (114 s): 10.6361 min.
-check_num "D1-S1 min" "$(col "$O/supply_travel.csv" depot_id D1 site_id S1 out_min)" 9.89545 1e-4
-check_num "D1-S2 min" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 out_min)" 10.63613 1e-4
-check_num "D1-S2 km" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 out_km)" 2.62801 1e-5
-check_num "D1-S2 back" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 back_min)" 10.63613 1e-4
-# D2 is 1,308 m from the nearest road node, beyond max_access_m = 1,000: no road.
+# Vehicle travel: D1 stands on the road's west end (50 m, 1050 m). S1 (250, 250)
+# joins the road 800 m away at (250, 1050): 200 m of primary road at 60 km/h = 12 s,
+# plus 800 m at 5 km/h = 576 s: 9.8 min over 1.0 km. S2 (1750, 1750) joins it 700 m
+# away at (1750, 1050): 1,700 m at 60 km/h = 102 s + 504 s = 10.1 min over 2.4 km.
+check_num "D1-S1 min" "$(col "$O/supply_travel.csv" depot_id D1 site_id S1 out_min)" 9.8 1e-9
+check_num "D1-S2 min" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 out_min)" 10.1 1e-9
+check_num "D1-S2 km" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 out_km)" 2.4 1e-9
+check_num "D1-S2 back" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 back_min)" 10.1 1e-9
+# D2 is 1,040 m from the road, beyond max_access_m = 1,000: no road.
 if [ "$(col "$O/supply_travel.csv" depot_id D2 site_id S1 out_min)" = "" ]; then ok; else bad "D2 should have no road"; fi
 expect_out "depot 'D2' is more than 1000 m from any road"
 
@@ -61,8 +61,8 @@ expect_out "depot 'D2' is more than 1000 m from any road"
 check_num "S1 kg shipped" "$(col "$O/supply_shipments.csv" site_id S1 kg)" 35200 1e-6
 check_num "S1 trips" "$(col "$O/supply_shipments.csv" site_id S1 trips)" 8 0
 check_num "S2 trips" "$(col "$O/supply_shipments.csv" site_id S2 trips)" 11 0
-# Truck-hours of S1: 8 x (2 x 593.73 s + 30 min loading) / 3600 = 6.6388 h.
-check_num "S1 truck hours" "$(col "$O/supply_shipments.csv" site_id S1 truck_hours)" 6.63879 1e-4
+# Truck-hours of S1: 8 x (2 x 588 s + 30 min loading) / 3600 = 6.61333 h.
+check_num "S1 truck hours" "$(col "$O/supply_shipments.csv" site_id S1 truck_hours)" 6.613333 1e-5
 # Depot balance: shipped + left = on hand.
 check_num "D1 water left" "$(col "$O/supply_depots.csv" depot_id D1 commodity water left)" 17000 1e-6
 v() { $PY -c "import json; d=json.load(open('$1/summary.json')); print($2)"; }

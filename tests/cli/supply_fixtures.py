@@ -67,12 +67,12 @@ layer("sites_nostore.geojson", ogr.wkbPoint,
       [(pt(250, 250), {"id": "S1", "name": "North post", "cap": 1000, "store": 0}),
        (pt(1750, 1750), {"id": "S2", "name": "South post", "cap": 1500, "store": 1000})],
       [("id", S), ("name", S), ("cap", R), ("store", R)])
-# D1 stands on the road's west end; D2 is 1,308 m from the nearest road node.
+# D1 stands on the road's west end; D2 is 1,040 m from the road.
 layer("depots.geojson", ogr.wkbPoint,
       [(pt(50, 1050), {"id": "D1", "name": "West depot"}),
-       (pt(1000, 150), {"id": "D2", "name": "Field store"})], [("id", S), ("name", S)])
+       (pt(1000, 10), {"id": "D2", "name": "Field store"})], [("id", S), ("name", S)])
 layer("depots_far.geojson", ogr.wkbPoint,
-      [(pt(1000, 150), {"id": "D2", "name": "Field store"})], [("id", S), ("name", S)])
+      [(pt(1000, 10), {"id": "D2", "name": "Field store"})], [("id", S), ("name", S)])
 
 GOOD = {
     "name": "supply fixture",

@@ -3,8 +3,10 @@ supply_travel.csv. Independent of our code: the graph is rebuilt from the road
 GeoPackage (vertices keyed by their coordinates, planar UTM lengths), vehicle
 speeds from the built-in table of docs/scenario.md (the demo scenario gives no
 road_speeds), one-way features only in their digitised direction, classes with
-vehicle speed 0 left out. Points join their nearest vehicle node by a straight
-leg at 5 km/h (the documented default), up to 2,000 m.
+vehicle speed 0 left out. Each point joins the nearest point of the nearest
+vehicle segment by a straight leg at 5 km/h (the documented default), up to
+2,000 m; the segment is split there (or the node joined when that point is an
+end), as docs/plan.md describes.
 usage: depots_networkx.py DEMO_DIR supply_travel.csv"""
 import csv
 import math
@@ -30,6 +32,7 @@ def check(cond, what):
 
 
 g = nx.DiGraph()
+segs = []   # (a, b, seconds per metre, oneway)
 ds = ogr.Open(f"{demo}/roads.gpkg")
 for f in ds.GetLayerByName("roads"):
     v = KMH[f.GetField("highway")] / 3.6
@@ -39,12 +42,13 @@ for f in ds.GetLayerByName("roads"):
     pts = [(round(geom.GetX(i), 3), round(geom.GetY(i), 3)) for i in range(geom.GetPointCount())]
     oneway = f.GetField("oneway") == "yes"
     for a, b in zip(pts, pts[1:]):
-        length = math.dist(a, b)
-        for u, w in ((a, b),) if oneway else ((a, b), (b, a)):
-            # Parallel edges keep the faster one, as a shortest path would.
-            if not g.has_edge(u, w) or g[u][w]["t"] > length / v:
-                g.add_edge(u, w, t=length / v, m=length)
-nodes = list(g.nodes)
+        segs.append((a, b, 1 / v, oneway))
+
+
+def add(u, w, spm, length):
+    # Parallel edges keep the faster one, as a shortest path would.
+    if not g.has_edge(u, w) or g[u][w]["t"] > length * spm:
+        g.add_edge(u, w, t=length * spm, m=length)
 
 
 def points(layer):
@@ -56,22 +60,58 @@ def points(layer):
     return out
 
 
-def snap(p):
-    n = min(nodes, key=lambda q: math.dist(p, q))
-    d = math.dist(p, n)
-    return (n, d) if d <= 2000 else (None, math.inf)
+def project(p):
+    """(distance, segment index, fraction) of the nearest point on a segment."""
+    best = (math.inf, -1, 0.0)
+    for i, (a, b, _, _) in enumerate(segs):
+        dx, dy = b[0] - a[0], b[1] - a[1]
+        l2 = dx * dx + dy * dy
+        t = 0.0 if l2 == 0 else max(0.0, min(1.0, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / l2))
+        d = math.dist(p, (a[0] + t * dx, a[1] + t * dy))
+        if d < best[0]:
+            best = (d, i, t)
+    return best
 
 
 depots, sites = points("depots"), points("health_posts")
+joint = {}   # point key -> (vertex, access metres)
+on_seg = {}  # segment -> [(fraction, vertex)]
+for kind, pts in (("d", depots), ("s", sites)):
+    for pid, p in pts.items():
+        d, i, t = project(p)
+        if d > 2000:
+            joint[(kind, pid)] = (None, math.inf)
+            continue
+        vx = ("point", kind, pid)
+        joint[(kind, pid)] = (vx, d)
+        a, b, _, _ = segs[i]
+        if t <= 1e-9 or t >= 1 - 1e-9:
+            node = a if t <= 1e-9 else b
+            g.add_edge(vx, node, t=0, m=0)
+            g.add_edge(node, vx, t=0, m=0)
+        else:
+            on_seg.setdefault(i, []).append((t, vx))
+for i, (a, b, spm, oneway) in enumerate(segs):
+    L = math.dist(a, b)
+    chain = [(0.0, a)] + sorted(on_seg.get(i, [])) + [(1.0, b)]
+    for (fu, u), (fw, w) in zip(chain, chain[1:]):
+        add(u, w, spm, (fw - fu) * L)
+        if not oneway:
+            add(w, u, spm, (fw - fu) * L)
 got = {(r["depot_id"], r["site_id"]): r for r in csv.DictReader(open(travel_csv))}
 check(len(got) == len(depots) * len(sites), f"{len(got)} pairs in {travel_csv}")
 rev = g.reverse(copy=True)
 for did, dp in depots.items():
-    dn, da = snap(dp)
+    dn, da = joint[("d", did)]
+    if dn is None:
+        for sid in sites:
+            r = got.get((did, sid), {})
+            check(r.get("out_min") == "", f"{did} has no road, yet {sid} has a time")
+        continue
     t_out, _ = nx.single_source_dijkstra(g, dn, weight="t")
     t_back, _ = nx.single_source_dijkstra(rev, dn, weight="t")
     for sid, sp in sites.items():
-        sn, sa = snap(sp)
+        sn, sa = joint[("s", sid)]
         r = got.get((did, sid))
         if r is None:
             check(False, f"{did}->{sid} missing")
