@@ -663,6 +663,12 @@ void supply_stage_print(const inputs_t *in, const points_t *sites, const supply_
                    : st->assignment == SUPPLY_STAGE_NEAREST ? "everyone whose nearest site it is"
                                                             : "as the site stage assigned them");
     }
+    printf("rates:");
+    for (size_t c = 0; c < C; c++)
+        printf("%s %s %.4g %s %s%s", c ? ";" : "", st->comm[c].name, st->comm[c].quantity,
+               st->comm[c].unit, rate_name(st->comm[c].rate_kind),
+               st->comm[c].group_share > 0 ? " (part of the people)" : "");
+    printf("\n");
     printf("stock per site for %g days of cover%s, buffer %g%% (whole packs):\n",
            st->policy.cover_s / STOCK_DAY_S,
            st->policy.lead_s > 0 ? " plus lead time" : "", 100 * st->policy.buffer);
