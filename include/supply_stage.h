@@ -28,10 +28,13 @@ typedef struct supply_stage {
     double *persons;           /* [s] people assigned to each site */
     stock_line_t *stock;       /* [s * n_comm + c] stock each site needs */
     double *need;              /* [s * n_comm + c] units needed (whole packs) */
-    double *depot_stock;       /* [d * n_comm + c] units on hand */
-    depots_travel_t travel;    /* depots (from) -> sites (to) */
-    double *time_s, *dist_m;   /* [d * n_sites + s] half the round trip; INFINITY = no road */
-    supply_result_t res;       /* the shipment plan */
+    double *depot_stock;       /* [d * n_comm + c] units on hand, d = index in the depot layer */
+    size_t n_active;           /* depots with any stock: only these enter travel and the model */
+    size_t *active;            /* [a] layer index of active depot a */
+    double *active_stock;      /* [a * n_comm + c] */
+    depots_travel_t travel;    /* active depots (from) -> sites (to) */
+    double *time_s, *dist_m;   /* [a * n_sites + s] half the round trip; INFINITY = no road */
+    supply_result_t res;       /* the shipment plan; route depots are active indices */
     int assignment;            /* how persons were found: SUPPLY_STAGE_* */
     warn_list_t warnings;      /* depots without stock, unreachable pairs, model warnings */
     double seconds_travel, seconds_solve;

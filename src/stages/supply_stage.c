@@ -35,6 +35,8 @@ void supply_stage_destroy(supply_stage_t *st)
     free(st->stock);
     free(st->need);
     free(st->depot_stock);
+    free(st->active);
+    free(st->active_stock);
     depots_travel_destroy(&st->travel);
     free(st->time_s);
     free(st->dist_m);
@@ -129,12 +131,32 @@ static int setup(const inputs_t *in, supply_stage_t *st, err_t *e)
         for (size_t c = 0; c < C; c++)
             st->depot_stock[(size_t)d * C + c] = x->depots[i].units[c];
     }
-    for (size_t d = 0; d < D; d++) {
-        double any = 0;
-        for (size_t c = 0; c < C; c++) any += st->depot_stock[d * C + c];
-        if (any == 0)
-            warn_add(&st->warnings, "depot '%s' has no stock in supply.depot_stock: it sends "
-                     "nothing", in->depots->id[d]);
+    /* Depots without any stock take no part in travel or the model. */
+    st->active = malloc((D + 1) * sizeof *st->active);
+    st->active_stock = malloc((D * C + 1) * sizeof *st->active_stock);
+    if (!st->active || !st->active_stock)
+        return err_set(e, ERR_NOMEM, "out of memory for the supply stage");
+    {
+        size_t n_empty = 0;
+        char list[256] = "";
+        for (size_t d = 0; d < D; d++) {
+            double any = 0;
+            for (size_t c = 0; c < C; c++) any += st->depot_stock[d * C + c];
+            if (any > 0) {
+                memcpy(&st->active_stock[st->n_active * C], &st->depot_stock[d * C],
+                       C * sizeof *st->active_stock);
+                st->active[st->n_active++] = d;
+            } else if (n_empty++ < 5) {
+                size_t used = strlen(list);
+                snprintf(list + used, sizeof list - used, "%s'%s'", used ? ", " : "",
+                         in->depots->id[d]);
+            }
+        }
+        if (n_empty > 0)
+            warn_add(&st->warnings, "%zu depot%s of sites.depots ha%s no stock in "
+                     "supply.depot_stock and send%s nothing: %s%s", n_empty,
+                     n_empty > 1 ? "s" : "", n_empty > 1 ? "ve" : "s", n_empty > 1 ? "" : "s",
+                     list, n_empty > 5 ? ", ..." : "");
     }
     return ERR_OK;
 }
@@ -144,6 +166,7 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
 {
     const struct scen_supply *x = in->scen->supply;
     const char **dnames = NULL, **snames = NULL;
+    double *dx = NULL, *dy = NULL;
     supply_problem_t p;
     solver_opts_t so;
     progress_t pr;
@@ -157,7 +180,7 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
     if ((rc = setup(in, st, e)) != ERR_OK) return rc;
     S = st->n_sites = sites ? sites->n : 0;
     C = st->n_comm;
-    D = st->n_depots;
+    D = st->n_active;
     if (S == 0)
         return err_set(e, ERR_INPUT, "scenario '%s': supply has no open sites to serve; give "
                        "sites.existing (or a siting section)", in->scen->file);
@@ -167,9 +190,11 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
     st->time_s = malloc((D * S + 1) * sizeof *st->time_s);
     st->dist_m = malloc((D * S + 1) * sizeof *st->dist_m);
     dnames = malloc((D + 1) * sizeof *dnames);
+    dx = malloc((D + 1) * sizeof *dx);
+    dy = malloc((D + 1) * sizeof *dy);
     snames = malloc((S + 1) * sizeof *snames);
     if (!st->persons || !st->stock || !st->need || !st->time_s || !st->dist_m || !dnames ||
-        !snames) {
+        !snames || !dx || !dy) {
         rc = err_set(e, ERR_NOMEM, "out of memory for the supply stage");
         goto done;
     }
@@ -184,12 +209,16 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
         }
         for (size_t c = 0; c < C; c++) st->need[s * C + c] = st->stock[s * C + c].units;
     }
-    for (size_t d = 0; d < D; d++) dnames[d] = in->depots->id[d];
+    for (size_t a = 0; a < D; a++) {
+        dnames[a] = in->depots->id[st->active[a]];
+        dx[a] = in->depots->x[st->active[a]];
+        dy[a] = in->depots->y[st->active[a]];
+    }
 
     /* Depot -> site on the vehicle roads. The model charges 2 x time per trip,
      * so it gets half the round trip: one-way streets make out and back differ. */
     st->seconds_travel = progress_now();
-    rc = depots_travel(in->roads, in->grid->geographic, in->depots->x, in->depots->y, D,
+    rc = depots_travel(in->roads, in->grid->geographic, dx, dy, D,
                        sites->x, sites->y, S, x->access_mps, x->max_access_m, &st->travel, e);
     st->seconds_travel = progress_now() - st->seconds_travel;
     if (rc != ERR_OK) goto done;
@@ -199,16 +228,26 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
         st->time_s[i] = ok ? (o + b) / 2 : INFINITY;
         st->dist_m[i] = ok ? (st->travel.out_m[i] + st->travel.back_m[i]) / 2 : 0;
     }
-    for (size_t d = 0; d < D; d++)
-        if (st->travel.from_seg[d] < 0)
+    for (size_t a = 0; a < D; a++)
+        if (st->travel.from_seg[a] < 0)
             warn_add(&st->warnings, "depot '%s' is more than %g m from any road open to "
-                     "vehicles: it cannot send anything (supply.max_access_m)",
-                     in->depots->id[d], x->max_access_m);
-    for (size_t s = 0; s < S; s++)
-        if (st->travel.to_seg[s] < 0)
-            warn_add(&st->warnings, "site '%s' is more than %g m from any road open to vehicles: "
-                     "nothing can be trucked there (supply.max_access_m)", sites->id[s],
+                     "vehicles: it cannot send anything (supply.max_access_m)", dnames[a],
                      x->max_access_m);
+    {
+        /* One warning for all sites off the road, naming the first few. */
+        size_t n_off = 0;
+        char list[256] = "";
+        for (size_t s = 0; s < S; s++)
+            if (st->travel.to_seg[s] < 0 && n_off++ < 5) {
+                size_t used = strlen(list);
+                snprintf(list + used, sizeof list - used, "%s'%s'", used ? ", " : "",
+                         sites->id[s]);
+            }
+        if (n_off > 0)
+            warn_add(&st->warnings, "%zu site%s more than %g m from any road open to vehicles, "
+                     "so nothing can be trucked there (supply.max_access_m): %s%s", n_off,
+                     n_off > 1 ? "s are" : " is", x->max_access_m, list, n_off > 5 ? ", ..." : "");
+    }
 
     memset(&p, 0, sizeof p);
     p.n_comm = C;
@@ -218,7 +257,7 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
     p.comm = st->comm;
     p.depot_names = dnames;
     p.site_names = snames;
-    p.stock = st->depot_stock;
+    p.stock = st->active_stock;
     p.need = st->need;
     p.storage_m3 = sites->storage_m3;
     p.time_s = st->time_s;
@@ -238,6 +277,8 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
 done:
     free(dnames);
     free(snames);
+    free(dx);
+    free(dy);
     return rc;
 }
 
@@ -396,8 +437,8 @@ static table_t *shipments_table(const inputs_t *in, const points_t *sites,
         }
         for (size_t j = 0; j < st->n_trucks; j++) trips += r->trips[j];
         trips_text(st, r, buf, sizeof buf);
-        table_set_text(t, (size_t)row, 0, in->depots->id[r->depot]);
-        table_set_text(t, (size_t)row, 1, in->depots->name[r->depot]);
+        table_set_text(t, (size_t)row, 0, in->depots->id[st->active[r->depot]]);
+        table_set_text(t, (size_t)row, 1, in->depots->name[st->active[r->depot]]);
         table_set_text(t, (size_t)row, 2, sites->id[r->site]);
         table_set_text(t, (size_t)row, 3, sites->name[r->site]);
         table_set_num(t, (size_t)row, 4, minutes(st->travel.out_s[k]));
@@ -459,6 +500,15 @@ static table_t *unmet_table(const points_t *sites, const supply_stage_t *st)
     return t;
 }
 
+/* Access leg of layer depot d to the road (NAN: no stock, so not routed, or no road). */
+static double access_of(const supply_stage_t *st, size_t d)
+{
+    for (size_t a = 0; a < st->n_active; a++)
+        if (st->active[a] == d)
+            return isfinite(st->travel.from_access_m[a]) ? st->travel.from_access_m[a] : NAN;
+    return NAN;
+}
+
 static table_t *depots_table(const inputs_t *in, const supply_stage_t *st)
 {
     static const char *names[] = {"depot_id", "depot_name", "commodity", "unit", "on_hand",
@@ -477,7 +527,7 @@ static table_t *depots_table(const inputs_t *in, const supply_stage_t *st)
                 return NULL;
             }
             for (size_t i = 0; i < st->res.n_routes; i++)
-                if (st->res.routes[i].depot == d)
+                if (st->active[st->res.routes[i].depot] == d)
                     shipped += st->res.routes[i].packs[c] * st->comm[c].pack_units;
             table_set_text(t, (size_t)r, 0, in->depots->id[d]);
             table_set_text(t, (size_t)r, 1, in->depots->name[d]);
@@ -486,8 +536,7 @@ static table_t *depots_table(const inputs_t *in, const supply_stage_t *st)
             table_set_num(t, (size_t)r, 4, st->depot_stock[d * C + c]);
             table_set_num(t, (size_t)r, 5, shipped);
             table_set_num(t, (size_t)r, 6, st->depot_stock[d * C + c] - shipped);
-            table_set_num(t, (size_t)r, 7, isfinite(st->travel.from_access_m[d])
-                                               ? st->travel.from_access_m[d] : NAN);
+            table_set_num(t, (size_t)r, 7, access_of(st, d));
         }
     return t;
 }
@@ -501,7 +550,7 @@ static table_t *travel_table(const inputs_t *in, const points_t *sites, const su
     table_t *t = table_new(8, names, types);
     const depots_travel_t *tr = &st->travel;
 
-    for (size_t d = 0; t != NULL && d < st->n_depots; d++)
+    for (size_t d = 0; t != NULL && d < st->n_active; d++)
         for (size_t s = 0; s < st->n_sites; s++) {
             size_t k = d * st->n_sites + s;
             long r = table_add_row(t);
@@ -509,7 +558,7 @@ static table_t *travel_table(const inputs_t *in, const points_t *sites, const su
                 table_free(t);
                 return NULL;
             }
-            table_set_text(t, (size_t)r, 0, in->depots->id[d]);
+            table_set_text(t, (size_t)r, 0, in->depots->id[st->active[d]]);
             table_set_text(t, (size_t)r, 1, sites->id[s]);
             table_set_num(t, (size_t)r, 2, minutes(tr->out_s[k]));
             table_set_num(t, (size_t)r, 3, minutes(tr->back_s[k]));
@@ -591,6 +640,7 @@ static void summary_supply(const inputs_t *in, const supply_stage_t *st, cJSON *
     for (size_t i = 0; i < st->res.n_lines; i++) short_lines += st->res.lines[i].short_units > 0;
     cJSON_AddNumberToObject(tot, "sites", (double)st->n_sites);
     cJSON_AddNumberToObject(tot, "depots", (double)st->n_depots);
+    cJSON_AddNumberToObject(tot, "depots_with_stock", (double)st->n_active);
     cJSON_AddNumberToObject(tot, "persons", persons);
     cJSON_AddNumberToObject(tot, "trips", trips);
     cJSON_AddNumberToObject(tot, "truck_hours", st->res.truck_hours);
@@ -649,41 +699,55 @@ int supply_stage_write(const char *outdir, const inputs_t *in, const points_t *s
     return ERR_OK;
 }
 
+/* Lines printed per list before the rest is left to the CSV files. */
+#define PRINT_MAX 15
+
 void supply_stage_print(const inputs_t *in, const points_t *sites, const supply_stage_t *st)
 {
-    size_t C = st->n_comm;
-    int any = 0;
+    size_t C = st->n_comm, n_short = 0;
+    double persons = 0;
 
-    {
-        double persons = 0;
-        for (size_t s = 0; s < st->n_sites; s++) persons += st->persons[s];
-        printf("people supplied: %.0f of %.0f (%s)\n", persons, in->grid->total_people,
-               st->assignment == SUPPLY_STAGE_CAPACITY
-                   ? "capacity-aware assignment within the time limit"
-                   : st->assignment == SUPPLY_STAGE_NEAREST ? "everyone whose nearest site it is"
-                                                            : "as the site stage assigned them");
-    }
+    for (size_t s = 0; s < st->n_sites; s++) persons += st->persons[s];
+    printf("people supplied: %.0f of %.0f (%s)\n", persons, in->grid->total_people,
+           st->assignment == SUPPLY_STAGE_CAPACITY
+               ? "capacity-aware assignment within the time limit"
+               : st->assignment == SUPPLY_STAGE_NEAREST ? "everyone whose nearest site it is"
+                                                        : "as the site stage assigned them");
     printf("rates:");
     for (size_t c = 0; c < C; c++)
         printf("%s %s %.4g %s %s%s", c ? ";" : "", st->comm[c].name, st->comm[c].quantity,
                st->comm[c].unit, rate_name(st->comm[c].rate_kind),
                st->comm[c].group_share > 0 ? " (part of the people)" : "");
     printf("\n");
-    printf("stock per site for %g days of cover%s, buffer %g%% (whole packs):\n",
+    printf("stock per site for %g days of cover%s, buffer %g%% (delivered/needed, whole packs):\n",
            st->policy.cover_s / STOCK_DAY_S,
            st->policy.lead_s > 0 ? " plus lead time" : "", 100 * st->policy.buffer);
-    for (size_t s = 0; s < st->n_sites; s++) {
+    for (size_t s = 0; s < st->n_sites && s < PRINT_MAX; s++) {
         printf("  %-10s %8.0f people ", sites->id[s], st->persons[s]);
         for (size_t c = 0; c < C; c++) {
             const supply_line_t *l = &st->res.lines[s * C + c];
-            printf(" %s %.0f/%.0f %s", st->comm[c].name, l->delivered, l->needed,
+            /* "+ 0.0" keeps a zero from printing as "-0". */
+            printf(" %s %.0f/%.0f %s", st->comm[c].name, l->delivered + 0.0, l->needed + 0.0,
                    st->comm[c].unit);
         }
         printf("\n");
     }
+    if (st->n_sites > PRINT_MAX)
+        printf("  ... %zu more sites in supply_stock.csv\n", st->n_sites - PRINT_MAX);
+    printf("totals:");
+    for (size_t c = 0; c < C; c++) {
+        double need = 0, del = 0;
+        for (size_t s = 0; s < st->n_sites; s++) {
+            need += st->res.lines[s * C + c].needed;
+            del += st->res.lines[s * C + c].delivered;
+        }
+        printf("%s %s %.0f of %.0f %s delivered", c ? ";" : "", st->comm[c].name, del + 0.0,
+               need + 0.0, st->comm[c].unit);
+    }
+    printf("\n");
     printf("trips per depot (%s, gap %.2g%%):\n", solver_status_name(st->res.status),
            isfinite(st->res.gap) ? 100 * st->res.gap : 0.0);
-    for (size_t d = 0; d < st->n_depots; d++) {
+    for (size_t d = 0; d < st->n_active; d++) {
         double trips = 0, kg = 0, hours = 0;
         size_t n_sites = 0;
         for (size_t i = 0; i < st->res.n_routes; i++) {
@@ -695,18 +759,24 @@ void supply_stage_print(const inputs_t *in, const points_t *sites, const supply_
             n_sites++;
         }
         printf("  %-10s %4.0f trips to %zu sites, %.1f t, %.1f truck-hours\n",
-               in->depots->id[d], trips, n_sites, kg / 1000.0, hours);
+               in->depots->id[st->active[d]], trips, n_sites, kg / 1000.0, hours);
     }
     for (size_t i = 0; i < st->res.n_lines; i++) {
         const supply_line_t *l = &st->res.lines[i];
         if (!(l->short_units > 0)) continue;
-        if (!any) printf("shortages:\n");
-        any = 1;
-        printf("  %-10s %s short %.0f of %.0f %s (%s)\n", sites->id[l->site],
-               st->comm[l->comm].name, l->short_units, l->needed, st->comm[l->comm].unit,
-               supply_reason_name(l->reason));
+        if (n_short == 0) printf("shortages:\n");
+        if (n_short++ < PRINT_MAX)
+            printf("  %-10s %s short %.0f of %.0f %s (%s)\n", sites->id[l->site],
+                   st->comm[l->comm].name, l->short_units, l->needed, st->comm[l->comm].unit,
+                   supply_reason_name(l->reason));
     }
-    if (!any) printf("shortages: none\n");
-    for (size_t i = 0; i < st->warnings.n; i++) printf("warning: %s\n", st->warnings.items[i]);
+    if (n_short > PRINT_MAX)
+        printf("  ... %zu more lines short in supply_unmet.csv\n", n_short - PRINT_MAX);
+    if (n_short == 0) printf("shortages: none\n");
+    for (size_t i = 0; i < st->warnings.n && i < PRINT_MAX; i++)
+        printf("warning: %s\n", st->warnings.items[i]);
+    if (st->warnings.n > PRINT_MAX)
+        printf("... %zu more warnings in summary.json (supply.warnings)\n",
+               st->warnings.n - PRINT_MAX);
     printf("%s\n", supply_stage_caution);
 }
