@@ -132,6 +132,64 @@ static void test_on_segment(void)
     }
 }
 
+/* The bucket index must find exactly the nearest open segment within reach:
+ * compared with a brute-force scan over random segments (our own LCG). */
+static void test_index_vs_scan(void)
+{
+    enum { NS = 400, NP = 80 };
+    static double x[2 * NS], y[2 * NS];
+    static road_seg_t sg[NS];
+    static road_class_count_t cls[1];
+    double px[NP], py[NP], reach[] = {0, 150, 300, 5000};
+    unsigned long long st = 12345;
+    roads_t r;
+    depots_travel_t t;
+    err_t e = {0};
+
+#define RND() ((st = st * 6364136223846793005ULL + 1442695040888963407ULL), \
+               (double)(st >> 11) / 9007199254740992.0)
+    memset(cls, 0, sizeof cls);
+    cls[0].vehicle_mps = 10;
+    for (int i = 0; i < NS; i++) {
+        double ang = RND() * 2 * M_PI, len = 50 + RND() * 450;
+        x[2 * i] = RND() * 10000;
+        y[2 * i] = RND() * 10000;
+        x[2 * i + 1] = x[2 * i] + len * cos(ang);
+        y[2 * i + 1] = y[2 * i] + len * sin(ang);
+        sg[i] = (road_seg_t){2 * i, 2 * i + 1, 0, i, len, 0};
+    }
+    for (int k = 0; k < NP; k++) {
+        px[k] = RND() * 12000 - 1000;
+        py[k] = RND() * 12000 - 1000;
+    }
+#undef RND
+    memset(&r, 0, sizeof r);
+    r.x = x;
+    r.y = y;
+    r.n_nodes = 2 * NS;
+    r.segs = sg;
+    r.n_segs = NS;
+    r.classes = cls;
+    r.n_classes = 1;
+    for (size_t m = 0; m < sizeof reach / sizeof reach[0]; m++) {
+        int bad = 0;
+        CHECK(depots_travel(&r, 0, px, py, 1, px, py, NP, 1, reach[m], &t, &e) == ERR_OK);
+        for (int k = 0; k < NP; k++) {
+            double best = INFINITY;
+            for (int i = 0; i < NS; i++) {
+                double ax = x[2 * i], ay = y[2 * i], dx = x[2 * i + 1] - ax, dy = y[2 * i + 1] - ay;
+                double u = ((px[k] - ax) * dx + (py[k] - ay) * dy) / (dx * dx + dy * dy);
+                u = u < 0 ? 0 : u > 1 ? 1 : u;
+                best = fmin(best, hypot(px[k] - ax - u * dx, py[k] - ay - u * dy));
+            }
+            if (best <= reach[m]) bad += !(fabs(t.to_access_m[k] - best) < 1e-9);
+            else bad += t.to_seg[k] != -1;
+        }
+        CHECK(bad == 0);
+        depots_travel_destroy(&t);
+    }
+}
+
 /* Lon/lat roads: the access legs are geodesic. 0.001 degree of latitude at the
  * equator is 110.574 m on WGS84 (1 degree = 110,574 m; from memory of the
  * standard meridian-arc tables). */
@@ -197,6 +255,7 @@ int main(void)
     igraph_set_warning_handler(igraph_warning_handler_ignore);
     test_hand_worked();
     test_on_segment();
+    test_index_vs_scan();
     test_geographic();
     test_edges_and_errors();
     return CHECK_DONE("test_depots");

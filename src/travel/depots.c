@@ -36,42 +36,169 @@ static double dist_m(int geographic, double x1, double y1, double x2, double y2)
     return hypot(x2 - x1, y2 - y1);
 }
 
-/* The nearest point to (x, y) on a segment open to vehicles: planar search
+/* Open segments bucketed on a grid of cells at least the longest access leg
+ * wide, so the segments within reach of a point are those listed in the cells
+ * its reach box overlaps (each segment is listed in every cell its bounding
+ * box overlaps). Compressed rows: cell c holds ids[start[c] .. start[c+1]). */
+typedef struct seg_index {
+    double x0, y0, bx, by;  /* origin (minimum corner) and cell size, CRS units */
+    double rx, ry;          /* reach box half-sizes, CRS units */
+    size_t nx, ny;
+    size_t *start;          /* nx * ny + 1 */
+    size_t *ids;            /* segment indices */
+} seg_index_t;
+
+static void seg_index_destroy(seg_index_t *ix)
+{
+    free(ix->start);
+    free(ix->ids);
+    memset(ix, 0, sizeof *ix);
+}
+
+/* Cells [*c0, *c1] overlapping [lo, hi] along one axis (0 = x, 1 = y);
+ * *c0 > *c1 when none does. */
+static void cell_range(const seg_index_t *ix, double lo, double hi, int axis, size_t *c0,
+                       size_t *c1)
+{
+    double o = axis ? ix->y0 : ix->x0, w = axis ? ix->by : ix->bx;
+    double n = (double)(axis ? ix->ny : ix->nx);
+    double a = floor((lo - o) / w), b = floor((hi - o) / w);
+
+    if (a < 0) a = 0;
+    if (b > n - 1) b = n - 1;
+    if (!(a <= b)) {   /* also NaN */
+        *c0 = 1;
+        *c1 = 0;
+        return;
+    }
+    *c0 = (size_t)a;
+    *c1 = (size_t)b;
+}
+
+/* Build the index over open segments for reach 'max_m' metres. */
+static int seg_index_build(const roads_t *r, const uint8_t *open, int geographic, double max_m,
+                           seg_index_t *ix, err_t *e)
+{
+    double xmin = INFINITY, xmax = -INFINITY, ymin = INFINITY, ymax = -INFINITY;
+    size_t n_open = 0, cells, total = 0;
+    size_t *fill = NULL;
+
+    memset(ix, 0, sizeof *ix);
+    for (size_t i = 0; i < r->n_segs; i++) {
+        const road_seg_t *s = &r->segs[i];
+        if (!open[i]) continue;
+        n_open++;
+        xmin = fmin(xmin, fmin(r->x[s->a], r->x[s->b]));
+        xmax = fmax(xmax, fmax(r->x[s->a], r->x[s->b]));
+        ymin = fmin(ymin, fmin(r->y[s->a], r->y[s->b]));
+        ymax = fmax(ymax, fmax(r->y[s->a], r->y[s->b]));
+    }
+    if (n_open == 0) return ERR_OK;
+    if (geographic) {
+        /* A degree of latitude is at least 110,574 m (WGS84, at the equator): use a
+         * slightly smaller figure so the box errs on the large side; a degree of
+         * longitude shrinks with the cosine of the largest latitude. */
+        double c = cos(fmin(89.0, fmax(fabs(ymin), fabs(ymax))) * M_PI / 180.0);
+        ix->ry = max_m / 110000.0;
+        ix->rx = ix->ry / c;
+    } else {
+        ix->rx = ix->ry = max_m;
+    }
+    ix->x0 = xmin;
+    ix->y0 = ymin;
+    ix->bx = fmax(ix->rx, 1e-9 * fmax(1, xmax - xmin));
+    ix->by = fmax(ix->ry, 1e-9 * fmax(1, ymax - ymin));
+    /* At most about four cells per open segment: widen the cells when needed. */
+    for (;;) {
+        double nxd = floor((xmax - xmin) / ix->bx) + 1, nyd = floor((ymax - ymin) / ix->by) + 1;
+        if (nxd * nyd <= 4.0 * (double)n_open + 16) {
+            ix->nx = (size_t)nxd;
+            ix->ny = (size_t)nyd;
+            break;
+        }
+        ix->bx *= 2;
+        ix->by *= 2;
+    }
+    cells = ix->nx * ix->ny;
+    ix->start = calloc(cells + 1, sizeof *ix->start);
+    fill = calloc(cells + 1, sizeof *fill);
+    if (ix->start == NULL || fill == NULL) goto nomem;
+    for (int pass = 0; pass < 2; pass++) {
+        for (size_t i = 0; i < r->n_segs; i++) {
+            const road_seg_t *s = &r->segs[i];
+            size_t cx0, cx1, cy0, cy1;
+            if (!open[i]) continue;
+            cell_range(ix, fmin(r->x[s->a], r->x[s->b]), fmax(r->x[s->a], r->x[s->b]), 0, &cx0,
+                       &cx1);
+            cell_range(ix, fmin(r->y[s->a], r->y[s->b]), fmax(r->y[s->a], r->y[s->b]), 1, &cy0,
+                       &cy1);
+            for (size_t cy = cy0; cy <= cy1; cy++)
+                for (size_t cx = cx0; cx <= cx1; cx++) {
+                    size_t c = cy * ix->nx + cx;
+                    if (pass == 0) ix->start[c + 1]++;
+                    else ix->ids[ix->start[c] + fill[c]++] = i;
+                }
+        }
+        if (pass == 0) {
+            for (size_t c = 0; c < cells; c++) ix->start[c + 1] += ix->start[c];
+            total = ix->start[cells];
+            ix->ids = malloc((total + 1) * sizeof *ix->ids);
+            if (ix->ids == NULL) goto nomem;
+        }
+    }
+    free(fill);
+    return ERR_OK;
+nomem:
+    free(fill);
+    seg_index_destroy(ix);
+    return err_set(e, ERR_NOMEM, "out of memory indexing the vehicle roads");
+}
+
+/* The nearest point to (x, y) on an open segment within max_m: planar search
  * (lon/lat: x scaled by the cosine of the latitude, good enough to rank
- * neighbours), then the true distance (geodesic on lon/lat) to that point.
+ * neighbours) over the index cells the reach box overlaps, ties to the lower
+ * segment index; then the true distance (geodesic on lon/lat) to that point.
  * *seg = -1 when no open segment lies within max_m. */
-static void snap(const roads_t *r, const uint8_t *open, int geographic, double x, double y,
+static void snap(const roads_t *r, const seg_index_t *ix, int geographic, double x, double y,
                  double max_m, int64_t *seg, double *frac, double *access_m)
 {
     double best = INFINITY, bpx = 0, bpy = 0, bf = 0;
     double kx = geographic ? cos(y * M_PI / 180.0) : 1.0;
     int64_t bi = -1;
+    size_t cx0, cx1, cy0, cy1;
 
-    for (size_t i = 0; i < r->n_segs; i++) {
-        const road_seg_t *s = &r->segs[i];
-        double ax, ay, dx, dy, l2, t, px, py, d2;
-        if (!open[i]) continue;
-        ax = (r->x[s->a] - x) * kx;
-        ay = r->y[s->a] - y;
-        dx = (r->x[s->b] - x) * kx - ax;
-        dy = r->y[s->b] - y - ay;
-        l2 = dx * dx + dy * dy;
-        t = l2 > 0 ? -(ax * dx + ay * dy) / l2 : 0;
-        t = t < 0 ? 0 : t > 1 ? 1 : t;
-        px = ax + t * dx;
-        py = ay + t * dy;
-        d2 = px * px + py * py;
-        if (d2 < best) {
-            best = d2;
-            bi = (int64_t)i;
-            bf = t;
-            bpx = px;
-            bpy = py;
-        }
-    }
     *seg = -1;
     *frac = 0;
     *access_m = INFINITY;
+    if (ix->start == NULL) return;
+    cell_range(ix, x - ix->rx, x + ix->rx, 0, &cx0, &cx1);
+    cell_range(ix, y - ix->ry, y + ix->ry, 1, &cy0, &cy1);
+    for (size_t cy = cy0; cy <= cy1 && cx0 <= cx1; cy++)
+        for (size_t cx = cx0; cx <= cx1; cx++) {
+            size_t c = cy * ix->nx + cx;
+            for (size_t k = ix->start[c]; k < ix->start[c + 1]; k++) {
+                size_t i = ix->ids[k];
+                const road_seg_t *s = &r->segs[i];
+                double ax, ay, dx, dy, l2, t, px, py, d2;
+                ax = (r->x[s->a] - x) * kx;
+                ay = r->y[s->a] - y;
+                dx = (r->x[s->b] - x) * kx - ax;
+                dy = r->y[s->b] - y - ay;
+                l2 = dx * dx + dy * dy;
+                t = l2 > 0 ? -(ax * dx + ay * dy) / l2 : 0;
+                t = t < 0 ? 0 : t > 1 ? 1 : t;
+                px = ax + t * dx;
+                py = ay + t * dy;
+                d2 = px * px + py * py;
+                if (d2 < best || (d2 == best && (int64_t)i < bi)) {
+                    best = d2;
+                    bi = (int64_t)i;
+                    bf = t;
+                    bpx = px;
+                    bpy = py;
+                }
+            }
+        }
     if (bi < 0) return;
     best = dist_m(geographic, x, y, x + bpx / kx, y + bpy);
     if (best > max_m) return;
@@ -237,6 +364,7 @@ int depots_travel(const roads_t *r, int geographic, const double *fx, const doub
                   double access_mps, double max_access_m, depots_travel_t *out, err_t *e)
 {
     vgraph_t v;
+    seg_index_t ix;
     size_t nm = n_from * n_to, n_pts = n_from + n_to, n_j = 0, n_ends = 0;
     double *ot = NULL, *om = NULL, *bt = NULL, *bm = NULL, *frac = NULL;
     uint8_t *open = NULL;
@@ -246,6 +374,7 @@ int depots_travel(const roads_t *r, int geographic, const double *fx, const doub
 
     memset(out, 0, sizeof *out);
     memset(&v, 0, sizeof v);
+    memset(&ix, 0, sizeof ix);
     if (!(access_mps > 0) || !isfinite(access_mps))
         return err_set(e, ERR_INPUT, "depot travel: access speed must be > 0 m/s (got %g)",
                        access_mps);
@@ -304,12 +433,13 @@ int depots_travel(const roads_t *r, int geographic, const double *fx, const doub
         }
         open[i] = r->classes[s->cls].vehicle_mps > 0 && s->length_m > 0;
     }
+    if ((rc = seg_index_build(r, open, geographic, max_access_m, &ix, e)) != ERR_OK) goto done;
     for (size_t k = 0; k < n_pts; k++) {
         int is_from = k < n_from;
         size_t i = is_from ? k : k - n_from;
         int64_t *seg = is_from ? &out->from_seg[i] : &out->to_seg[i];
         double *acc = is_from ? &out->from_access_m[i] : &out->to_access_m[i];
-        snap(r, open, geographic, is_from ? fx[i] : tx[i], is_from ? fy[i] : ty[i],
+        snap(r, &ix, geographic, is_from ? fx[i] : tx[i], is_from ? fy[i] : ty[i],
              max_access_m, seg, &frac[k], acc);
         if (*seg < 0) continue;
         /* At a segment's end (to 1e-9 of its length): join the node, not the segment. */
@@ -319,6 +449,7 @@ int depots_travel(const roads_t *r, int geographic, const double *fx, const doub
         else
             j[n_j++] = (joint_t){*seg, frac[k], (igraph_integer_t)(r->n_nodes + k)};
     }
+    seg_index_destroy(&ix);
     qsort(j, n_j, sizeof *j, joint_cmp);
     if ((rc = vgraph_build(r, open, j, n_j, ends, n_ends, n_pts, &v, e)) != ERR_OK) goto done;
     for (size_t t = 0; t < n_to; t++)
@@ -344,6 +475,7 @@ int depots_travel(const roads_t *r, int geographic, const double *fx, const doub
         }
     }
 done:
+    seg_index_destroy(&ix);
     vgraph_destroy(&v);
     free(ot);
     free(om);
