@@ -662,6 +662,23 @@ static void summary_supply(const inputs_t *in, const supply_stage_t *st, cJSON *
         cJSON_AddNumberToObject(o, "short", need - del);
         cJSON_AddNumberToObject(o, "depot_stock", on_hand);
     }
+    by = cJSON_AddObjectToObject(tot, "by_depot");
+    for (size_t a = 0; a < st->n_active; a++) {
+        cJSON *o = cJSON_AddObjectToObject(by, in->depots->id[st->active[a]]);
+        double dt = 0, dkg = 0, dh = 0, ns = 0;
+        for (size_t i = 0; i < st->res.n_routes; i++) {
+            const supply_route_t *r = &st->res.routes[i];
+            if (r->depot != a) continue;
+            for (size_t k = 0; k < st->n_trucks; k++) dt += r->trips[k];
+            dkg += r->kg;
+            dh += r->truck_hours;
+            ns += 1;
+        }
+        cJSON_AddNumberToObject(o, "trips", dt);
+        cJSON_AddNumberToObject(o, "sites", ns);
+        cJSON_AddNumberToObject(o, "kg", dkg);
+        cJSON_AddNumberToObject(o, "truck_hours", dh);
+    }
     sol = cJSON_AddObjectToObject(sj, "solver");
     cJSON_AddStringToObject(sol, "status", solver_status_name(st->res.status));
     add_num(sol, "objective", st->res.objective);

@@ -52,9 +52,9 @@ check_num "D1-S1 min" "$(col "$O/supply_travel.csv" depot_id D1 site_id S1 out_m
 check_num "D1-S2 min" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 out_min)" 10.1 1e-9
 check_num "D1-S2 km" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 out_km)" 2.4 1e-9
 check_num "D1-S2 back" "$(col "$O/supply_travel.csv" depot_id D1 site_id S2 back_min)" 10.1 1e-9
-# D2 is 1,040 m from the road, beyond max_access_m = 1,000: no road.
-if [ "$(col "$O/supply_travel.csv" depot_id D2 site_id S1 out_min)" = "" ]; then ok; else bad "D2 should have no road"; fi
-expect_out "depot 'D2' is more than 1000 m from any road"
+# D2 holds no stock here: it is left out of routing and said to send nothing.
+if [ "$(col "$O/supply_travel.csv" depot_id D2 site_id S1 out_min)" = "none" ]; then ok; else bad "D2 routed without stock"; fi
+expect_out "1 depot of sites.depots has no stock in supply.depot_stock and sends nothing: 'D2'"
 
 # Trips: S1 gets 33,000 kg of water + 2,200 kg of kits = 35,200 kg on 5,000 kg
 # lorries: at least 8 trips; S2 gets 50,000 + 3,300 = 53,300 kg: at least 11.
@@ -68,6 +68,7 @@ check_num "D1 water left" "$(col "$O/supply_depots.csv" depot_id D1 commodity wa
 v() { $PY -c "import json; d=json.load(open('$1/summary.json')); print($2)"; }
 if [ "$(v "$O" 'd["supply"]["solver"]["status"]')" = "optimal" ]; then ok; else bad "solver status"; fi
 check_num "summary delivered" "$(v "$O" 'd["supply"]["totals"]["by_commodity"]["water"]["delivered"]')" 83000 1e-6
+check_num "summary D1 trips" "$(v "$O" 'd["supply"]["totals"]["by_depot"]["D1"]["trips"]')" 19 0
 check_num "summary days" "$(v "$O" 'd["supply"]["assumptions"]["days_of_cover"]')" 2 1e-9
 check_num "summary water rate" "$(v "$O" 'd["supply"]["assumptions"]["commodities"][0]["quantity"]')" 15 1e-9
 if v "$O" 'd["supply"]["caution"]' | grep -q "local guidance"; then ok; else bad "summary caution"; fi
@@ -80,8 +81,10 @@ check_num "kits short" "$($PY -c "import csv; print(sum(float(r['short']) for r 
 if grep -q ',stock,' "$WORK/o2/supply_unmet.csv"; then ok; else bad "reason stock"; fi
 check_num "short summary" "$(v "$WORK/o2" 'd["supply"]["totals"]["by_commodity"]["kit"]["short"]')" 750 1e-9
 
-# A depot with no road within reach: everything short, reason 'unreachable'.
+# A depot with no road within reach (D2 is 1,040 m from the road, beyond
+# max_access_m = 1,000): everything short, reason 'unreachable'.
 expect_ok "$BIN" supply "$F/unreachable_depot.json" -o "$WORK/o3"
+if [ "$(col "$WORK/o3/supply_travel.csv" depot_id D2 site_id S1 out_min)" = "" ]; then ok; else bad "D2 should have no road"; fi
 check_num "unreachable lines" "$(grep -c ',unreachable,' "$WORK/o3/supply_unmet.csv")" 4 0
 expect_out "depot 'D2' is more than 1000 m from any road open to vehicles"
 
