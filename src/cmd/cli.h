@@ -37,5 +37,11 @@ int cmd_reach(const cli_options_t *o, err_t *e);
 extern const char cmd_reach_usage[];
 int cmd_report(const cli_options_t *o, err_t *e);
 extern const char cmd_report_usage[];
+int cmd_plan(const cli_options_t *o, err_t *e);
+extern const char cmd_plan_usage[];
+int cmd_supply(const cli_options_t *o, err_t *e);
+extern const char cmd_supply_usage[];
+/* The plan script; full = 0 leaves out site selection and the report (supply). */
+int cmd_plan_job(const cli_options_t *o, int full, err_t *e);
 
 #endif

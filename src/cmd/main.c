@@ -20,6 +20,10 @@ static const cli_command_t commands[] = {
      cmd_reach_usage, 1, cmd_reach, NULL},
     {"report", "the HTML plan report (maps, charts, tables) of an output folder",
      cmd_report_usage, 0, cmd_report, "OUTDIR"},
+    {"supply", "stock per site and truck trips from the depots, for the existing sites",
+     cmd_supply_usage, 1, cmd_supply, NULL},
+    {"plan", "the whole job: check, reach, new sites, stock and shipments, report",
+     cmd_plan_usage, 1, cmd_plan, NULL},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 
