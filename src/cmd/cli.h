@@ -34,5 +34,7 @@ int cmd_check(const cli_options_t *o, err_t *e);
 extern const char cmd_check_usage[];
 int cmd_reach(const cli_options_t *o, err_t *e);
 extern const char cmd_reach_usage[];
+int cmd_site(const cli_options_t *o, err_t *e);
+extern const char cmd_site_usage[];
 
 #endif

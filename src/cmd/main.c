@@ -17,6 +17,8 @@ static const cli_command_t commands[] = {
      cmd_check},
     {"reach", "travel times to the nearest site, catchments, people by time band",
      cmd_reach_usage, 1, cmd_reach},
+    {"site", "choose sites: covering, median or capacitated models, on a grid or tables",
+     cmd_site_usage, 1, cmd_site},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 
