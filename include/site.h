@@ -54,6 +54,8 @@ typedef struct site_result {
     double objective_agg;     /* the model's objective on the blocks */
     double objective_cells;   /* the same plan evaluated on the cells */
     double penalty;           /* per unserved person (median, capacitated), cost units */
+    double *flow;             /* capacitated, split: persons per pair of prob (the
+                               * exact split behind the plan's loads); NULL otherwise */
     cover_point_t *curve;     /* coverage curve, n_curve points (NULL when none) */
     int n_curve;
     double seconds_model, seconds_curve;

@@ -59,6 +59,7 @@ void site_result_destroy(site_result_t *r)
 {
     if (r == NULL) return;
     loc_result_destroy(&r->plan);
+    free(r->flow);
     free(r->curve);
     memset(r, 0, sizeof *r);
 }
@@ -437,9 +438,108 @@ static int capacity_on_cells(const loc_problem_t *p, const loc_result_t *open_pl
     for (size_t t = 0; t < r->n_open; t++) r->open[t] = open_plan->open[r->open[t]];
     for (size_t j = 0; j < p->n_units; j++)
         if (r->assign[j] >= 0) r->assign[j] = open_plan->open[r->assign[j]];
+    /* Reasons as on the full problem: the sub-problem knows only the open sites,
+     * so "no site in reach" there may mean "not chosen" here. */
+    for (size_t j = 0; j < p->n_units; j++) {
+        int any = 0, open_near = 0;
+        if (r->served[j] >= p->weight[j]) continue;
+        for (size_t k = p->unit_start[j]; k < p->unit_start[j + 1]; k++) {
+            if (p->pair_cost[k] > o->limit) break;
+            any = 1;
+            if (map[p->pair_site[k]] >= 0) open_near = 1;
+        }
+        r->why[j] = open_near ? LOC_CAPACITY : any ? LOC_NOT_CHOSEN : LOC_NO_SITE_IN_REACH;
+    }
 done:
     loc_free(sub);
     free(map);
+    return rc;
+}
+
+/* A split plan says how many persons of each unit are served, but not by which
+ * open sites. The least-cost split that serves exactly those persons within the
+ * capacities is a transportation LP; its cost equals the model's assignment
+ * cost, and it gives each site's true load. flow[k] per pair of 'p'. */
+static int split_flows(const loc_problem_t *p, const loc_result_t *plan, double limit,
+                       double **flow_out, err_t *e)
+{
+    solver_mip_t *m = NULL;
+    solver_opts_t so;
+    solver_result_t sr = {0};
+    unsigned char *open = calloc(p->n_sites + 1, 1);
+    int *col = malloc((p->n_pairs + 1) * sizeof *col), *idx = NULL;
+    double *flow = calloc(p->n_pairs + 1, sizeof *flow), *val = NULL;
+    size_t n_cols = 0;
+    int rc, first = 0, row;
+
+    *flow_out = NULL;
+    if (!open || !col || !flow) {
+        rc = err_set(e, ERR_NOMEM, "out of memory splitting demand between sites");
+        goto done;
+    }
+    for (size_t t = 0; t < plan->n_open; t++) open[plan->open[t]] = 1;
+    for (size_t k = 0; k < p->n_pairs; k++) col[k] = 0;
+    rc = solver_mip_new("split of demand between open sites", SOLVER_MIN, &m, e);
+    for (size_t j = 0; rc == ERR_OK && j < p->n_units; j++) {
+        if (plan->served[j] <= 0) continue;
+        for (size_t k = p->unit_start[j]; k < p->unit_start[j + 1] && rc == ERR_OK; k++) {
+            if (p->pair_cost[k] > limit || !open[p->pair_site[k]]) continue;
+            rc = solver_add_cols(m, 1, SOLVER_CONTINUOUS, 0, INFINITY, &p->pair_cost[k], &first, e);
+            col[k] = first;
+            n_cols++;
+        }
+    }
+    if (rc != ERR_OK) goto done;
+    idx = malloc((n_cols + p->n_pairs + 1) * sizeof *idx);
+    val = malloc((n_cols + p->n_pairs + 1) * sizeof *val);
+    if (!idx || !val) {
+        rc = err_set(e, ERR_NOMEM, "out of memory splitting demand between sites");
+        goto done;
+    }
+    for (size_t j = 0; rc == ERR_OK && j < p->n_units; j++) {
+        size_t nnz = 0;
+        if (plan->served[j] <= 0) continue;
+        for (size_t k = p->unit_start[j]; k < p->unit_start[j + 1]; k++)
+            if (col[k] > 0) {
+                idx[nnz] = col[k];
+                val[nnz++] = 1;
+            }
+        rc = solver_add_row(m, nnz, idx, val, plan->served[j], plan->served[j], &row, e);
+    }
+    for (size_t i = 0; rc == ERR_OK && i < p->n_sites; i++) {
+        size_t nnz = 0;
+        if (!open[i] || !isfinite(p->capacity[i])) continue;
+        for (size_t k = 0; k < p->n_pairs; k++)
+            if (col[k] > 0 && p->pair_site[k] == (int)i) {
+                idx[nnz] = col[k];
+                val[nnz++] = 1;
+            }
+        /* A hair of room for rounding in the plan's served amounts. */
+        if (nnz > 0)
+            rc = solver_add_row(m, nnz, idx, val, -INFINITY, p->capacity[i] * (1 + 1e-9) + 1e-9,
+                                &row, e);
+    }
+    if (rc != ERR_OK) goto done;
+    solver_opts_default(&so);
+    rc = solver_solve(m, &so, NULL, &sr, e);
+    if (rc != ERR_OK) goto done;
+    if (sr.status != SOLVER_OPTIMAL) {
+        rc = err_set(e, ERR_SOLVER, "splitting the served demand between open sites: %s",
+                     solver_status_name(sr.status));
+        goto done;
+    }
+    for (size_t k = 0; k < p->n_pairs; k++)
+        if (col[k] > 0) flow[k] = sr.x[col[k]];
+    *flow_out = flow;
+    flow = NULL;
+done:
+    solver_result_destroy(&sr);
+    solver_mip_free(m);
+    free(open);
+    free(col);
+    free(idx);
+    free(val);
+    free(flow);
     return rc;
 }
 
@@ -547,6 +647,8 @@ int site_run(const scen_t *s, const site_data_t *d, int quiet, site_result_t *r,
         rc = solve(st->model, p, &o, &r->plan, e);
         if (rc == ERR_OK) r->objective_cells = r->plan.objective;
     }
+    if (rc == ERR_OK && st->model == SCEN_SITE_CAPACITATED && !st->single_source)
+        rc = split_flows(p, &r->plan, d->limit, &r->flow, e);
     r->seconds_model = progress_end(&pr);
     if (rc != ERR_OK) goto done;
 
@@ -592,6 +694,17 @@ static site_stat_t *site_stats(const site_data_t *d, const site_result_t *r)
 
     if (s == NULL) return NULL;
     for (size_t t = 0; t < r->plan.n_open; t++) s[r->plan.open[t]].open = 1;
+    if (r->flow != NULL) {
+        for (size_t k = 0; k < p->n_pairs; k++) {
+            int i = p->pair_site[k];
+            double c = p->pair_cost[k] / (d->cost_scale > 0 ? d->cost_scale : 1);
+            if (r->flow[k] <= 1e-9) continue;
+            s[i].served += r->flow[k];
+            s[i].sum_cost += r->flow[k] * c;
+            if (c > s[i].max_cost) s[i].max_cost = c;
+        }
+        return s;
+    }
     for (size_t j = 0; j < p->n_units; j++) {
         int i = r->plan.assign[j];
         double c;
