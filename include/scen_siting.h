@@ -35,7 +35,7 @@ struct scen_siting {
     int min_fixed_cost;     /* "minimise": 0 = "sites" (default), 1 = "fixed_cost" */
     int single_source;      /* "assignment": 0 = "split" (default), 1 = "single" */
     double cost_rate;       /* "assignment_cost_rate": cost per person per minute (grids) or
-                             * per table cost unit (tables); default 1, [0, 1e9] */
+                             * per table cost unit (tables); default 1, (0, 1e9] */
     double penalty;         /* "penalty_per_person"; 0 = automatic */
     int existing;           /* "existing": enum scen_site_existing; default keep */
     int aggregate_cells;    /* "aggregate_cells": k -> k x k blocks (median, capacitated); 1 */

@@ -75,7 +75,7 @@ int scen_siting_read(const jsonv_node_t *root, const scen_t *s, struct scen_siti
                            e)) != ERR_OK ||
         (rc = jsonv_enum(&o, "minimise", 0, MINIMISE, 0, &x->min_fixed_cost, e)) != ERR_OK ||
         (rc = jsonv_enum(&o, "assignment", 0, ASSIGNMENT, 0, &x->single_source, e)) != ERR_OK ||
-        (rc = jsonv_number(&o, "assignment_cost_rate", 0, JSONV_CLOSED(0, 1e9), 1, &x->cost_rate,
+        (rc = jsonv_number(&o, "assignment_cost_rate", 0, JSONV_OPEN_CLOSED(0, 1e9), 1, &x->cost_rate,
                            e)) != ERR_OK ||
         (rc = jsonv_number(&o, "penalty_per_person", 0, JSONV_CLOSED(0, 1e15), 0, &x->penalty,
                            e)) != ERR_OK ||
