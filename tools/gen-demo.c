@@ -1384,7 +1384,9 @@ static int write_scenario(const demo_t *d, const char *path, err_t *e)
         "\"walk\": { \"speed_kmh\": 5.0, \"slope\": true },\n"
         "              \"landcover_factors\": { \"10\": 1.0, \"20\": 1.0, \"30\": 0.6, "
         "\"40\": 0.4, \"50\": 1.0, \"60\": 0 } },\n"
-        "  \"coverage\": { \"limit_min\": 60, \"bands_min\": [30, 60, 120] } }\n",
+        "  \"coverage\": { \"limit_min\": 60, \"bands_min\": [30, 60, 120] },\n"
+        "  \"siting\": { \"model\": \"max_cover\", \"p\": 5, \"existing\": \"keep\", "
+        "\"curve_max_p\": 10 } }\n",
         DISTRICT_NAME, (unsigned long long)d->seed);
     if (fclose(f) != 0)
         return err_set(e, ERR_IO, "gen-demo: cannot finish '%s': %s", path, strerror(errno));
