@@ -44,6 +44,7 @@ step() {
 
 step check "$bin" check "$scenario"
 step reach "$bin" reach "$scenario" -o "$out/reach"
+step site "$bin" site "$scenario" -o "$out/site"
 # Later stages add one line each, e.g.:
 # step plan "$bin" plan "$scenario" -o "$out"
 
