@@ -6,7 +6,8 @@
  * without merging (time-limited), for comparison. Target (issue 4): 2,000
  * candidates, 50,000 cells, p = 100 proved optimal in <= 60 s.
  * Usage: bench-site [--cells N] [--candidates C] [--p P] [--limit-min M]
- *                   [--threads T] [--time-limit S] [--unmerged] */
+ *                   [--threads T] [--time-limit S] [--unmerged] [--clustered]
+ * --clustered puts the people in villages on a grid three times the area. */
 #include <math.h>
 #include <stdint.h>
 #include <stdio.h>
@@ -28,6 +29,32 @@ static uint64_t rnd(void)
     /* 64-bit LCG (Knuth's MMIX constants), deterministic across runs. */
     rng_state = rng_state * 6364136223846793005ULL + 1442695040888963407ULL;
     return rng_state >> 33;
+}
+
+/* Clustered variant: villages (discs of 300-1,500 m) placed at random on a
+ * grid three times the area until 'target' cells are populated, as in a rural
+ * district where most land is empty. */
+static void cluster_people(grid_t *g, long target)
+{
+    long populated = 0;
+    g->total_people = 0;
+    for (size_t i = 0; i < (size_t)g->nx * g->ny; i++) g->people[i] = 0;
+    while (populated < target) {
+        int cx = (int)(rnd() % (uint64_t)g->nx), cy = (int)(rnd() % (uint64_t)g->ny);
+        int rad = 3 + (int)(rnd() % 13);   /* cells of 100 m */
+        for (int r = cy - rad; r <= cy + rad; r++)
+            for (int c = cx - rad; c <= cx + rad; c++) {
+                size_t i;
+                if (r < 0 || c < 0 || r >= g->ny || c >= g->nx) continue;
+                if ((r - cy) * (r - cy) + (c - cx) * (c - cx) > rad * rad) continue;
+                i = (size_t)r * g->nx + c;
+                if (g->people[i] == 0 && populated < target) {
+                    g->people[i] = (double)(1 + rnd() % 40);
+                    g->total_people += g->people[i];
+                    populated++;
+                }
+            }
+    }
 }
 
 static grid_t *make_grid(int n)
@@ -124,7 +151,7 @@ int main(int argc, char **argv)
 {
     long cells = 50000, n_cand = 2000, p = 100, threads = 2;
     double limit_min = 30, time_limit = 300;
-    int unmerged = 0;
+    int unmerged = 0, clustered = 0;
     char json[512];
     inputs_t in = {0};
     network_t *net = NULL;
@@ -135,6 +162,7 @@ int main(int argc, char **argv)
 
     for (int i = 1; i < argc; i++) {
         if (strcmp(argv[i], "--unmerged") == 0) unmerged = 1;
+        else if (strcmp(argv[i], "--clustered") == 0) clustered = 1;
         else if (i + 1 < argc && strcmp(argv[i], "--cells") == 0) cells = atol(argv[++i]);
         else if (i + 1 < argc && strcmp(argv[i], "--candidates") == 0) n_cand = atol(argv[++i]);
         else if (i + 1 < argc && strcmp(argv[i], "--p") == 0) p = atol(argv[++i]);
@@ -160,16 +188,19 @@ int main(int argc, char **argv)
         return 1;
     }
     {
-        int n = (int)ceil(sqrt((double)cells));
+        int n = (int)ceil(sqrt((double)cells * (clustered ? 3 : 1)));
         in.grid = make_grid(n);
+        if (in.grid != NULL && clustered) cluster_people(in.grid, cells);
         in.roads = in.grid ? make_roads(in.grid, 50) : NULL;
         in.candidates = in.grid ? make_candidates(in.grid, (size_t)n_cand) : NULL;
         if (!in.grid || !in.roads || !in.candidates) {
             fprintf(stderr, "bench-site: out of memory for the synthetic district\n");
             return 1;
         }
-        printf("district: %d x %d = %d cells of 100 m, %ld candidates, p = %ld, walking "
-               "limit %g min, %ld threads\n", n, n, n * n, n_cand, p, limit_min, threads);
+        printf("district: %d x %d = %d cells of 100 m (%s), %ld candidates, p = %ld, walking "
+               "limit %g min, %ld threads\n", n, n, n * n,
+               clustered ? "people in villages" : "people on every cell", n_cand, p, limit_min,
+               threads);
     }
     t0 = progress_now();
     if (network_build(in.grid, in.roads, in.scen, &net, &e) != ERR_OK) {
