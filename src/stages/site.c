@@ -1135,6 +1135,17 @@ void site_print(const scen_t *s, const site_data_t *d, const site_result_t *r)
         printf("%s\n", added > shown ? ", ..." : "");
     }
     if (closed > 0) printf("existing sites closed: %zu\n", closed);
+    if (ss != NULL) {
+        double sv = 0, sc = 0;
+        for (size_t i = 0; i < p->n_sites; i++) {
+            sv += ss[i].served;
+            sc += ss[i].sum_cost;
+        }
+        if (sv > 0 && d->is_grid)
+            printf("mean travel time of the people served: %.1f min\n", sc / sv / 60.0);
+        else if (sv > 0)
+            printf("mean cost per person served: %.6g\n", sc / sv);
+    }
     unserved_by_reason(d, r, why);
     printf("unserved: %.0f people (no site in reach %.0f, sites not chosen %.0f, sites full %.0f)\n",
            pl->unserved_weight, why[LOC_NO_SITE_IN_REACH], why[LOC_NOT_CHOSEN], why[LOC_CAPACITY]);
