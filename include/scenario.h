@@ -61,7 +61,8 @@ typedef struct scen {
     char *name;              /* "name": free text; default = file base name */
 
     /* "inputs" */
-    char *population;        /* required: GDAL raster, persons per cell in band 1 */
+    char *population;        /* GDAL raster, persons per cell in band 1; required unless
+                                "inputs.tables" is given (then NULL) */
     char *landcover;         /* optional: GDAL raster of class values */
     char *elevation;         /* optional: GDAL raster, metres */
     char *barriers;          /* optional: GDAL raster, nonzero = impassable */
@@ -72,6 +73,13 @@ typedef struct scen {
     char *road_oneway_field; /* default "oneway": yes/true/1 forward, -1 reverse */
     char *road_access_field; /* default NULL: yes/true/1 = limited access (no connectors) */
     scen_layer_t districts;  /* optional: OGR polygon layer; name_field names districts */
+    /* "inputs.tables": CSV inputs instead of a grid (docs/tables.md); all NULL when absent.
+     * Either edges (from,to,cost) or matrix (demand_id,site_id,cost), with demand and sites. */
+    char *table_edges;       /* resolved path or NULL */
+    char *table_matrix;      /* resolved path or NULL */
+    char *table_demand;      /* resolved path; required with tables */
+    char *table_sites;       /* resolved path; required with tables */
+    int table_directed;      /* "inputs.tables.directed": edges run from -> to only; default 0 */
 
     /* "sites" */
     scen_layer_t existing;   /* optional: OGR point layer of existing facilities */

@@ -45,7 +45,8 @@ step() {
 step check "$bin" check "$scenario"
 step reach "$bin" reach "$scenario" -o "$out/reach"
 step report "$bin" report "$out/reach"
-# The whole job (docs/plan.md): reach, site selection when merged, stock and shipments.
+step site "$bin" site "$scenario" -o "$out/site"
+# The whole job (docs/plan.md): reach, site selection, stock and shipments, report.
 step plan "$bin" plan "$scenario" -o "$out"
 
 if [ -f "$out/report.html" ]; then

@@ -1384,7 +1384,9 @@ static int write_scenario(const demo_t *d, const char *path, err_t *e)
         "\"walk\": { \"speed_kmh\": 5.0, \"slope\": true },\n"
         "              \"landcover_factors\": { \"10\": 1.0, \"20\": 1.0, \"30\": 0.6, "
         "\"40\": 0.4, \"50\": 1.0, \"60\": 0 } },\n"
-        "  \"coverage\": { \"limit_min\": 60, \"bands_min\": [30, 60, 120] }",
+        "  \"coverage\": { \"limit_min\": 60, \"bands_min\": [30, 60, 120] },\n"
+        "  \"siting\": { \"model\": \"max_cover\", \"p\": 5, \"existing\": \"keep\", "
+        "\"curve_max_p\": 10 }",
         DISTRICT_NAME, (unsigned long long)d->seed);
     /* Stock and shipments (docs/plan.md): food and shelter at their Sphere 2018
      * defaults plus soap; soap stock is set short on purpose so that the demo
@@ -1404,9 +1406,9 @@ static int write_scenario(const demo_t *d, const char *path, err_t *e)
         "\"count\": 4,\n"
         "        \"cost_per_hour\": 15, \"cost_per_km\": 0.4, \"loading_min\": 30, "
         "\"hours_available\": 60 } ],\n"
-        "    \"depot_stock\": { \"D1\": { \"food\": 500000, \"shelter\": 300000, "
+        "    \"depot_stock\": { \"D1\": { \"food\": 700000, \"shelter\": 480000, "
         "\"soap\": 6000 },\n"
-        "                     \"D2\": { \"food\": 300000, \"shelter\": 150000, "
+        "                     \"D2\": { \"food\": 400000, \"shelter\": 300000, "
         "\"soap\": 2000 } } }", f);
     fputs(" }\n", f);
     if (fclose(f) != 0)

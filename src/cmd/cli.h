@@ -43,5 +43,7 @@ int cmd_supply(const cli_options_t *o, err_t *e);
 extern const char cmd_supply_usage[];
 /* The plan script; full = 0 leaves out site selection and the report (supply). */
 int cmd_plan_job(const cli_options_t *o, int full, err_t *e);
+int cmd_site(const cli_options_t *o, err_t *e);
+extern const char cmd_site_usage[];
 
 #endif

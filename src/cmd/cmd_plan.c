@@ -20,6 +20,7 @@
 #include "progress.h"
 #include "reach.h"
 #include "report.h"
+#include "site.h"
 #include "summary.h"
 #include "supply_stage.h"
 
@@ -52,33 +53,129 @@ typedef struct plan_sites {
     size_t opened;          /* new sites opened by the site step */
     double covered_after;   /* people within the limit of an open site after the step */
     int ran;                /* 1 when a site stage ran */
+    points_t *owned;        /* the open sites when the site stage made them */
 } plan_sites_t;
 
-/* ---- WIRING POINT: site selection --------------------------------------------
- * The site stage (include/site.h, src/stages/site.c) is not in this build yet.
- * When it lands, replace the body below by, in order:
- *   site_run(in, net, reach_before, ..., &site_res, e);       choose the new sites
- *   site_write(outdir, in, &site_res, summary, e);            its files + "site" section
- *   ps->sites = <existing + opened sites as a points_t>;     (owned by site_res)
- *   ps->persons[s] = <people site_res assigns to site s>;    ps->assignment = GIVEN;
- *   ps->opened = <number of new sites>; ps->covered_after = <people within the limit>;
- *   ps->ran = 1;
- * and print its summary in print_plan. Nothing else in this file needs to change. */
-static int plan_site_step(const inputs_t *in, network_t *net, const reach_result_t *before,
-                          const char *outdir, cJSON *summary, plan_sites_t *ps,
-                          warn_list_t *notes, err_t *e)
+/* ---- site selection ------------------------------------------------------------
+ * With a 'siting' section the site stage (include/site.h) chooses the new sites;
+ * its files go into OUTDIR/site (its sites.csv differs from reach's) and its
+ * figures into the "site" section of summary.json. The open sites (existing
+ * kept plus new) and the people each serves within the limit feed supply. */
+
+/* Copy one site of the site stage into slot k of 'out'. Existing and
+ * candidate-layer sites keep their storage capacity; generated ones have none
+ * given (unlimited). */
+static int copy_site(const inputs_t *in, const site_data_t *sd, size_t i, points_t *out,
+                     size_t k)
 {
-    (void)net;
-    (void)outdir;
-    (void)summary;
-    (void)e;
-    if (in->scen->siting != NULL)
-        warn_add(notes, "the scenario has a 'siting' section, but this build has no site "
-                 "selection stage yet: no new sites were opened");
-    ps->covered_after = before != NULL ? before->people_within_limit : 0;
+    const loc_problem_t *p = sd->prob;
+    double storage = INFINITY;
+
+    if (sd->origin[i] == SITE_EXISTING && in->existing != NULL && i < in->existing->n)
+        storage = in->existing->storage_m3[i];
+    else if (sd->origin[i] == SITE_LAYER && in->candidates != NULL &&
+             i - sd->n_existing < in->candidates->n)
+        storage = in->candidates->storage_m3[i - sd->n_existing];
+    out->id[k] = strdup(p->site_id[i] ? p->site_id[i] : "");
+    out->name[k] = strdup(sd->site_name[i] ? sd->site_name[i] : "");
+    if (out->id[k] == NULL || out->name[k] == NULL) return ERR_NOMEM;
+    out->x[k] = sd->site_x[i];
+    out->y[k] = sd->site_y[i];
+    out->cell[k] = sd->site_cell[i];
+    out->capacity[k] = p->capacity[i];
+    out->cost[k] = p->fixed_cost[i];
+    out->storage_m3[k] = storage;
     return ERR_OK;
 }
-/* ---- end of the wiring point ------------------------------------------------- */
+
+static int plan_site_step(const inputs_t *in, network_t *net, const cli_options_t *o,
+                          cJSON *summary, plan_sites_t *ps, err_t *e)
+{
+    site_data_t sd = {0};
+    site_result_t sr = {0};
+    points_t *open = NULL;
+    const loc_result_t *pl;
+    char *dir = NULL;
+    int rc;
+
+    if (in->scen->siting == NULL) return ERR_OK;
+    rc = site_prepare_grid(in, net, o->threads, o->quiet, &sd, e);
+    if (rc == ERR_OK) rc = site_run(in->scen, &sd, o->quiet, &sr, e);
+    if (rc != ERR_OK) goto done;
+    dir = out_join(o->outdir, "site");
+    if (dir == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    rc = out_mkdir(dir, e);
+    if (rc == ERR_OK) rc = site_write(dir, in->scen, &sd, &sr, summary, e);
+    if (rc != ERR_OK) goto done;
+    {
+        cJSON *sj = cJSON_GetObjectItem(summary, "site");
+        if (sj != NULL) cJSON_AddStringToObject(sj, "folder", "site");
+    }
+    if (!o->quiet && !o->json) site_print(in->scen, &sd, &sr);
+
+    pl = &sr.plan;
+    open = calloc(1, sizeof *open);
+    if (open == NULL) goto nomem;
+    open->n = pl->n_open;
+    open->id = calloc(pl->n_open + 1, sizeof *open->id);
+    open->name = calloc(pl->n_open + 1, sizeof *open->name);
+    open->x = malloc((pl->n_open + 1) * sizeof *open->x);
+    open->y = malloc((pl->n_open + 1) * sizeof *open->y);
+    open->cell = malloc((pl->n_open + 1) * sizeof *open->cell);
+    open->capacity = malloc((pl->n_open + 1) * sizeof *open->capacity);
+    open->cost = malloc((pl->n_open + 1) * sizeof *open->cost);
+    open->storage_m3 = malloc((pl->n_open + 1) * sizeof *open->storage_m3);
+    free(ps->persons);
+    ps->persons = calloc(pl->n_open + 1, sizeof *ps->persons);
+    if (!open->id || !open->name || !open->x || !open->y || !open->cell || !open->capacity ||
+        !open->cost || !open->storage_m3 || !ps->persons)
+        goto nomem;
+    {
+        /* Site index -> slot among the open sites. */
+        long *slot = malloc((sd.prob->n_sites + 1) * sizeof *slot);
+        if (slot == NULL) goto nomem;
+        for (size_t i = 0; i < sd.prob->n_sites; i++) slot[i] = -1;
+        for (size_t k = 0; k < pl->n_open; k++) {
+            slot[pl->open[k]] = (long)k;
+            if (copy_site(in, &sd, (size_t)pl->open[k], open, k) != ERR_OK) {
+                free(slot);
+                goto nomem;
+            }
+            if (!sd.existing[pl->open[k]]) ps->opened++;
+        }
+        /* People each open site serves within the limit: the exact split of a
+         * capacitated plan when there is one, else each unit's serving site. */
+        if (sr.flow != NULL) {
+            for (size_t q = 0; q < sd.prob->n_pairs; q++)
+                if (sr.flow[q] > 0 && slot[sd.prob->pair_site[q]] >= 0)
+                    ps->persons[slot[sd.prob->pair_site[q]]] += sr.flow[q];
+        } else {
+            for (size_t u = 0; u < sd.prob->n_units; u++)
+                if (pl->assign[u] >= 0 && slot[pl->assign[u]] >= 0)
+                    ps->persons[slot[pl->assign[u]]] += pl->served[u];
+        }
+        free(slot);
+    }
+    ps->owned = open;
+    ps->sites = open;
+    open = NULL;
+    ps->assignment = SUPPLY_STAGE_GIVEN;
+    ps->covered_after = pl->served_weight;
+    ps->ran = 1;
+    goto done;
+nomem:
+    rc = err_set(e, ERR_NOMEM, "out of memory collecting the open sites");
+done:
+    points_free(open);
+    free(dir);
+    site_result_destroy(&sr);
+    site_data_destroy(&sd);
+    return rc;
+}
+/* ---- end of site selection ------------------------------------------------------ */
 
 static void print_plan(const inputs_t *in, const districts_t *d, const plan_sites_t *ps,
                        const reach_result_t *before, const supply_stage_t *sup, const warn_list_t *notes, int full,
@@ -163,7 +260,7 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
         if (rc != ERR_OK) goto done;
     }
 
-    /* site: new points (stubbed until the site stage is merged). Until then
+    /* site: new points when the scenario has a 'siting' section; without one,
      * supply serves the existing sites with the people reach assigned to them. */
     ps.sites = in->existing;
     if (have_before) {
@@ -175,8 +272,8 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
         ps.assignment = supply_stage_persons_from_reach(&before, ps.persons);
     }
     if (full) {
-        rc = plan_site_step(in, net, have_before ? &before : NULL, o->outdir, sum, &ps, &notes,
-                            e);
+        ps.covered_after = have_before ? before.people_within_limit : 0;
+        rc = plan_site_step(in, net, o, sum, &ps, e);
         if (rc != ERR_OK) goto done;
     }
 
@@ -239,6 +336,7 @@ done:
     report_result_destroy(&report);
     free(path);
     free(ps.persons);
+    points_free(ps.owned);
     cJSON_Delete(sum);
     supply_stage_destroy(&sup);
     reach_result_destroy(&before);

@@ -24,6 +24,8 @@ static const cli_command_t commands[] = {
      cmd_supply_usage, 1, cmd_supply, NULL},
     {"plan", "the whole job: check, reach, new sites, stock and shipments, report",
      cmd_plan_usage, 1, cmd_plan, NULL},
+    {"site", "choose sites: covering, median or capacitated models, on a grid or tables",
+     cmd_site_usage, 1, cmd_site, NULL},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 

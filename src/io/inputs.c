@@ -75,6 +75,13 @@ int inputs_load(const char *scenario_path, int quiet, inputs_t **out, err_t *e)
 
     rc = scen_load(scenario_path, &in->scen, e);
     if (rc != ERR_OK) goto done;
+    /* Table scenarios (inputs.tables) have no grid: only 'site' reads them. */
+    if (in->scen->population == NULL) {
+        rc = err_set(e, ERR_INPUT, "%s: this scenario gives CSV tables (inputs.tables), not a "
+                     "population grid; this command needs a grid in 'inputs.population' "
+                     "('sitereach site' reads tables)", in->scen->file);
+        goto done;
+    }
     progress_start(&pr, "reading population grid");
     rc = grid_load(in->scen->population, &in->grid, e);
     if (rc == ERR_OK && in->scen->landcover != NULL)

@@ -1,27 +1,119 @@
-/* scen_siting: reader of the scenario's "siting" section (see include/scen_siting.h).
- * Strict like the rest of the scenario: unknown keys are errors. */
+/* scen_siting: reader of the scenario's "siting" section (see include/scen_siting.h
+ * and docs/siting.md). Strict like the rest of the scenario: unknown keys are
+ * errors, values are typed and ranged, and a model missing what it needs (p for
+ * p_median, p or budget for max_cover) is named here, before any input is read. */
 #include "scen_siting.h"
 
+#include <math.h>
 #include <stdlib.h>
 
 #include "scen_sections.h"
 
-static const char *const KEYS[] = {NULL};
+static const char *const KEYS[] = {"model", "p", "budget", "limit_min", "limit", "target_share",
+                                   "minimise", "assignment", "assignment_cost_rate",
+                                   "penalty_per_person", "existing", "aggregate_cells",
+                                   "curve_max_p", "time_limit_s", "gap", "candidates", NULL};
+static const char *const GEN_KEYS[] = {"generate", "spacing_m", "min_spacing_m", "near_m",
+                                       "min_people", "capacity", "fixed_cost", "max", NULL};
+static const char *const MODELS[] = {"max_cover", "set_cover", "p_median", "capacitated", NULL};
+static const char *const MINIMISE[] = {"sites", "fixed_cost", NULL};
+static const char *const ASSIGNMENT[] = {"split", "single", NULL};
+static const char *const EXISTING[] = {"keep", "may_close", NULL};
+static const char *const GENERATE[] = {"none", "junctions", "along_roads", NULL};
+
+static int read_candidates(const jsonv_node_t *o, struct scen_siting *x, err_t *e)
+{
+    jsonv_node_t c;
+    long mx;
+    int rc;
+
+    if ((rc = jsonv_object(o, "candidates", JSONV_OPTIONAL, GEN_KEYS, &c, e)) != ERR_OK ||
+        (rc = jsonv_enum(&c, "generate", JSONV_REQUIRED, GENERATE, SCEN_GEN_NONE, &x->generate,
+                         e)) != ERR_OK ||
+        (rc = jsonv_number(&c, "spacing_m", 0, JSONV_CLOSED(10, 1e6), 1000, &x->spacing_m, e)) !=
+            ERR_OK ||
+        (rc = jsonv_number(&c, "min_spacing_m", 0, JSONV_CLOSED(0, 1e6), 500, &x->min_spacing_m,
+                           e)) != ERR_OK ||
+        (rc = jsonv_number(&c, "near_m", 0, JSONV_CLOSED(0, 1e5), 500, &x->near_m, e)) != ERR_OK ||
+        (rc = jsonv_number(&c, "min_people", 0, JSONV_CLOSED(0, 1e9), 1, &x->min_people, e)) !=
+            ERR_OK ||
+        (rc = jsonv_number(&c, "capacity", 0, JSONV_OPEN_CLOSED(0, 1e12), INFINITY,
+                           &x->gen_capacity, e)) != ERR_OK ||
+        (rc = jsonv_number(&c, "fixed_cost", 0, JSONV_CLOSED(0, 1e15), 0, &x->gen_fixed_cost,
+                           e)) != ERR_OK ||
+        (rc = jsonv_int(&c, "max", 0, 1, 100000, 2000, &mx, e)) != ERR_OK)
+        return rc;
+    x->gen_max = (int)mx;
+    return ERR_OK;
+}
 
 int scen_siting_read(const jsonv_node_t *root, const scen_t *s, struct scen_siting **out,
                      err_t *e)
 {
+    struct scen_siting *x = NULL;
     jsonv_node_t o;
+    long p, agg, curve;
+    double limit_min;
     int rc;
 
     (void)s;
     *out = NULL;
     if ((rc = jsonv_object(root, "siting", 0, KEYS, &o, e)) != ERR_OK || o.json == NULL)
         return rc;
-    *out = calloc(1, sizeof **out);
-    if (*out == NULL) return err_set(e, ERR_NOMEM, "%s: out of memory", root->file);
-    (*out)->present = 1;
-    return ERR_OK;
+    x = calloc(1, sizeof *x);
+    if (x == NULL) return err_set(e, ERR_NOMEM, "%s: out of memory", root->file);
+    x->present = 1;
+    if ((rc = jsonv_enum(&o, "model", 0, MODELS, SCEN_SITE_MAX_COVER, &x->model, e)) != ERR_OK ||
+        (rc = jsonv_int(&o, "p", 0, 1, 1000000, -1, &p, e)) != ERR_OK ||
+        (rc = jsonv_number(&o, "budget", 0, JSONV_CLOSED(0, INFINITY), INFINITY, &x->budget,
+                           e)) != ERR_OK ||
+        (rc = jsonv_number(&o, "limit_min", 0, JSONV_OPEN_CLOSED(0, 1440), NAN, &limit_min, e)) !=
+            ERR_OK ||
+        (rc = jsonv_number(&o, "limit", 0, JSONV_OPEN(0, INFINITY), NAN, &x->limit_cost, e)) !=
+            ERR_OK ||
+        (rc = jsonv_number(&o, "target_share", 0, JSONV_OPEN_CLOSED(0, 1), 1, &x->target_share,
+                           e)) != ERR_OK ||
+        (rc = jsonv_enum(&o, "minimise", 0, MINIMISE, 0, &x->min_fixed_cost, e)) != ERR_OK ||
+        (rc = jsonv_enum(&o, "assignment", 0, ASSIGNMENT, 0, &x->single_source, e)) != ERR_OK ||
+        (rc = jsonv_number(&o, "assignment_cost_rate", 0, JSONV_OPEN_CLOSED(0, 1e9), 1, &x->cost_rate,
+                           e)) != ERR_OK ||
+        (rc = jsonv_number(&o, "penalty_per_person", 0, JSONV_CLOSED(0, 1e15), 0, &x->penalty,
+                           e)) != ERR_OK ||
+        (rc = jsonv_enum(&o, "existing", 0, EXISTING, SCEN_EXISTING_KEEP, &x->existing, e)) !=
+            ERR_OK ||
+        (rc = jsonv_int(&o, "aggregate_cells", 0, 1, 64, 1, &agg, e)) != ERR_OK ||
+        (rc = jsonv_int(&o, "curve_max_p", 0, 0, 1000, -1, &curve, e)) != ERR_OK ||
+        (rc = jsonv_number(&o, "time_limit_s", 0, JSONV_OPEN_CLOSED(0, 86400), 600,
+                           &x->time_limit_s, e)) != ERR_OK ||
+        (rc = jsonv_number(&o, "gap", 0, JSONV_CLOSED(0, 0.5), 0, &x->gap, e)) != ERR_OK ||
+        (rc = read_candidates(&o, x, e)) != ERR_OK)
+        goto done;
+    x->p = (int)p;
+    x->limit_s = limit_min * 60.0;   /* NAN stays NAN: the stage uses coverage.limit_min */
+    x->aggregate_cells = (int)agg;
+    x->curve_max_p = (int)curve;
+    if (x->model == SCEN_SITE_P_MEDIAN && x->p < 0) {
+        rc = err_set(e, ERR_INPUT, "%s: key 'siting.p' is required for model 'p_median' "
+                     "(the number of sites to open)", root->file);
+        goto done;
+    }
+    if (x->model == SCEN_SITE_MAX_COVER && x->p < 0 && isinf(x->budget)) {
+        rc = err_set(e, ERR_INPUT, "%s: model 'max_cover' needs 'siting.p' (sites to open) "
+                     "or 'siting.budget' (fixed cost allowed)", root->file);
+        goto done;
+    }
+    if (x->aggregate_cells > 1 &&
+        (x->model == SCEN_SITE_MAX_COVER || x->model == SCEN_SITE_SET_COVER)) {
+        rc = err_set(e, ERR_INPUT, "%s: key 'siting.aggregate_cells' applies to 'p_median' and "
+                     "'capacitated' only (covering models merge identical cells exactly)",
+                     root->file);
+        goto done;
+    }
+    *out = x;
+    x = NULL;
+done:
+    free(x);
+    return rc;
 }
 
 void scen_siting_free(struct scen_siting *x)

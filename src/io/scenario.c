@@ -43,7 +43,8 @@ static const char *const TOP_KEYS[] = {"name", "inputs", "sites", "travel", "cov
                                        "population_groups", "siting", "supply", "variants",
                                        NULL};
 static const char *const INPUT_KEYS[] = {"population", "landcover", "elevation", "barriers",
-                                         "roads", "districts", NULL};
+                                         "roads", "districts", "tables", NULL};
+static const char *const TABLE_KEYS[] = {"edges", "matrix", "directed", "demand", "sites", NULL};
 static const char *const ROAD_KEYS[] = {"path", "layer", "id_field", "class_field",
                                         "bridge_field", "tunnel_field", "oneway_field",
                                         "access_field", NULL};
@@ -96,6 +97,10 @@ void scen_free(scen_t *s)
     free(s->road_oneway_field);
     free(s->road_access_field);
     layer_free(&s->districts);
+    free(s->table_edges);
+    free(s->table_matrix);
+    free(s->table_demand);
+    free(s->table_sites);
     layer_free(&s->existing);
     layer_free(&s->candidates);
     layer_free(&s->depots);
@@ -181,13 +186,50 @@ static int raster(const jsonv_node_t *in, const char *key, int flags, const char
     return resolve(dir, out, in->file, e);
 }
 
+/* "inputs.tables": CSV tables for the site-selection models, no grid. Exactly
+ * one of 'edges' and 'matrix', plus 'demand' and 'sites'. */
+static int read_tables(const jsonv_node_t *in, scen_t *s, err_t *e)
+{
+    jsonv_node_t t;
+    int rc;
+
+    if ((rc = jsonv_object(in, "tables", JSONV_OPTIONAL, TABLE_KEYS, &t, e)) != ERR_OK ||
+        t.json == NULL)
+        return rc;
+    if ((rc = raster(&t, "edges", 0, s->dir, &s->table_edges, e)) != ERR_OK ||
+        (rc = raster(&t, "matrix", 0, s->dir, &s->table_matrix, e)) != ERR_OK ||
+        (rc = raster(&t, "demand", JSONV_REQUIRED, s->dir, &s->table_demand, e)) != ERR_OK ||
+        (rc = raster(&t, "sites", JSONV_REQUIRED, s->dir, &s->table_sites, e)) != ERR_OK ||
+        (rc = jsonv_bool(&t, "directed", 0, 0, &s->table_directed, e)) != ERR_OK)
+        return rc;
+    if ((s->table_edges == NULL) == (s->table_matrix == NULL))
+        return err_set(e, ERR_INPUT, "%s: key 'inputs.tables' needs exactly one of 'edges' "
+                       "(from,to,cost) and 'matrix' (demand_id,site_id,cost)", s->file);
+    if (s->table_matrix != NULL && cJSON_GetObjectItemCaseSensitive(t.json, "directed") != NULL)
+        return err_set(e, ERR_INPUT, "%s: key 'inputs.tables.directed' applies to 'edges' only",
+                       s->file);
+    return ERR_OK;
+}
+
 static int read_inputs(const jsonv_node_t *root, scen_t *s, err_t *e)
 {
-    jsonv_node_t in, roads, districts;
+    jsonv_node_t in, roads, districts, tables;
     int rc;
 
     if ((rc = jsonv_object(root, "inputs", JSONV_REQUIRED, INPUT_KEYS, &in, e)) != ERR_OK ||
-        (rc = raster(&in, "population", JSONV_REQUIRED, s->dir, &s->population, e)) != ERR_OK ||
+        (rc = read_tables(&in, s, e)) != ERR_OK)
+        return rc;
+    /* A grid or tables: the population raster is required unless tables are given. */
+    jsonv_child(&in, "tables", &tables);
+    if (tables.json != NULL) {
+        jsonv_node_t pop;
+        jsonv_child(&in, "population", &pop);
+        if (pop.json != NULL)
+            return err_set(e, ERR_INPUT, "%s: give either 'inputs.population' (a grid) or "
+                           "'inputs.tables' (CSV tables), not both", s->file);
+    }
+    if ((rc = raster(&in, "population", tables.json != NULL ? 0 : JSONV_REQUIRED, s->dir,
+                     &s->population, e)) != ERR_OK ||
         (rc = raster(&in, "landcover", JSONV_NULLABLE, s->dir, &s->landcover, e)) != ERR_OK ||
         (rc = raster(&in, "elevation", JSONV_NULLABLE, s->dir, &s->elevation, e)) != ERR_OK ||
         (rc = raster(&in, "barriers", JSONV_NULLABLE, s->dir, &s->barriers, e)) != ERR_OK ||

@@ -65,7 +65,12 @@ int summary_new(const char *command, const inputs_t *in, cJSON **out, err_t *e)
     add_file(inp, "existing sites", s->existing.path);
     add_file(inp, "candidate sites", s->candidates.path);
     add_file(inp, "depots", s->depots.path);
-    {
+    add_file(inp, "edge table", s->table_edges);
+    add_file(inp, "cost matrix", s->table_matrix);
+    add_file(inp, "demand table", s->table_demand);
+    add_file(inp, "site table", s->table_sites);
+    /* Table scenarios have no grid. */
+    if (in->grid != NULL) {
         cJSON *gj = cJSON_AddObjectToObject(j, "grid");
         cJSON_AddNumberToObject(gj, "columns", in->grid->nx);
         cJSON_AddNumberToObject(gj, "rows", in->grid->ny);

@@ -35,9 +35,14 @@ expect_ok "$BIN" plan "$F/no_supply.json" -o "$WORK/o4"
 expect_out "stock and shipments: skipped"
 if [ -e "$WORK/o4/supply_stock.csv" ]; then bad "supply files without supply"; else ok; fi
 if [ "$(v "$WORK/o4" 'd["plan"]["sections"]["supply"]')" = "None" ]; then ok; else bad "null supply link"; fi
-# A siting section is noted (no site stage in this build), not ignored silently.
+# With a siting section plan chooses the new site (files in OUTDIR/site) and
+# supply serves the existing sites plus the new one.
 expect_ok "$BIN" plan "$F/with_siting.json" -o "$WORK/o5"
-expect_out "no site selection stage yet"
+expect_out "sites opened: 1"
+if [ -s "$WORK/o5/site/sites.csv" ]; then ok; else bad "plan wrote no site/sites.csv"; fi
+if [ "$(v "$WORK/o5" 'd["plan"]["site_selection_ran"]')" = "True" ]; then ok; else bad "site_selection_ran"; fi
+if [ "$(v "$WORK/o5" 'len({r["site_id"] for r in __import__("csv").DictReader(open("'"$WORK/o5"'/supply_stock.csv"))})')" = \
+     "$(v "$WORK/o5" 'd["site"]["sites_open"] if "sites_open" in d["site"] else len(d["open_sites"])')" ]; then ok; else bad "supply serves every open site"; fi
 # Bad input stops the plan with one line.
 expect_fail 1 "supply.fleet[0].payload_kg" "$BIN" plan "$F/zero_payload.json" -o "$WORK/o6"
 expect_fail 2 "no output folder given" "$BIN" plan "$F/good.json"
@@ -75,10 +80,16 @@ for r in ships:
     want(float(r["kg"]) <= cap + 1e-6, f"trips carry the load {r['depot_id']}->{r['site_id']}")
 for t in fleet.values():
     want(t["hours_used"] <= t["count"] * t["hours_available"] + 1e-6, f"fleet hours {t['name']}")
-# People per site = the capacity-aware assignment in sites.csv.
-served = {r["id"]: float(r["served_within_limit"]) for r in rows("sites.csv")}
+# People per site = those the site stage serves (site/sites.csv), or the
+# capacity-aware assignment of reach (sites.csv) when no site stage ran.
+if s["plan"]["site_selection_ran"]:
+    served = {r["id"]: float(r["people_served"]) for r in rows("site/sites.csv")
+              if r["status"] in ("kept", "new")}
+else:
+    served = {r["id"]: float(r["served_within_limit"]) for r in rows("sites.csv")}
+want(set(served) == {r["site_id"] for r in stock}, "supply serves exactly the open sites")
 for r in stock:
-    want(abs(float(r["persons"]) - served[r["site_id"]]) < 1e-6, "persons from reach")
+    want(abs(float(r["persons"]) - served[r["site_id"]]) < 1e-3, "persons per site")
 tot = s["supply"]["totals"]["by_commodity"]
 for c, t in tot.items():
     want(abs(t["needed"] - t["delivered"] - t["short"]) < 1e-6, f"totals {c}")

@@ -139,4 +139,8 @@ scenario("misspelt_commodity.json", sup(depot_stock={"D1": {"watr": 1}}))
 scenario("no_fleet.json", lambda s: s["supply"].pop("fleet"))
 scenario("no_supply.json", lambda s: s.pop("supply"))
 scenario("no_depots.json", lambda s: s["sites"].pop("depots"))
-scenario("with_siting.json", lambda s: s.update(siting={}))
+# Site selection inside plan: one new site among points generated along the road.
+# A 10-minute limit leaves people uncovered, so the new site has work to do.
+scenario("with_siting.json", lambda s: s.update(coverage={"limit_min": 10}, siting={
+    "model": "max_cover", "p": 1, "existing": "keep",
+    "candidates": {"generate": "along_roads", "spacing_m": 500, "min_spacing_m": 200}}))

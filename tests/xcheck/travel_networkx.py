@@ -9,6 +9,11 @@ Usage: travel_networkx.py TEST_TRAVEL_BINARY WORKDIR [ROME99_GR]
 2. The DIMACS Rome99 road graph (.gr, arc weights in metres) is converted to a CSV
    edge list; igraph's distances (TEST_TRAVEL --csv-distances) from a few sources
    must equal networkx's single-source Dijkstra.
+3. The same Rome99 edge list through the plain table input of the command line
+   ('sitereach site' with inputs.tables.edges, directed, every node a demand
+   unit, one candidate site): the cost of each node in assignment.csv is its
+   shortest path TO the site, which must equal networkx's Dijkstra on the
+   reversed graph. Needs SITEREACH_BIN (tests/run.sh sets it).
 Prints 'travel_networkx: N passed, M failed' last; exits 1 on any failure.
 """
 import csv
@@ -123,6 +128,42 @@ def check_rome(binary, gr, work):
         check(bad == 0, "rome99 from node %d: %d distances differ" % (s, bad))
 
 
+def check_rome_tables(gr_csv, work):
+    """Rome99 through 'sitereach site' on an edge-list table (from,to,cost)."""
+    binary = os.environ.get("SITEREACH_BIN")
+    if not binary or not os.path.exists(binary):
+        check(False, "rome99 tables: SITEREACH_BIN not set or not built")
+        return
+    edges = os.path.join(work, "rome99_edges.csv")
+    with open(gr_csv) as f, open(edges, "w") as out:
+        next(f)
+        out.write("from,to,cost\n")
+        for line in f:
+            out.write(line)
+    with open(os.path.join(work, "rome99_demand.csv"), "w") as f:
+        f.write("id,weight\n" + "".join("%d,1\n" % v for v in range(3353)))
+    g = read_edges(gr_csv).reverse(copy=True)
+    for s in (0, 1000, 3352):
+        with open(os.path.join(work, "rome99_site.csv"), "w") as f:
+            f.write("id\n%d\n" % s)
+        scen = os.path.join(work, "rome99_%d.json" % s)
+        with open(scen, "w") as f:
+            f.write('{"inputs": {"tables": {"edges": "rome99_edges.csv", "directed": true, '
+                    '"demand": "rome99_demand.csv", "sites": "rome99_site.csv"}}, '
+                    '"siting": {"model": "p_median", "p": 1}}')
+        outdir = os.path.join(work, "rome99_out_%d" % s)
+        subprocess.run([binary, "site", scen, "-o", outdir, "--quiet"], check=True)
+        ours = {}
+        with open(os.path.join(outdir, "assignment.csv")) as f:
+            for row in csv.DictReader(f):
+                ours[int(row["demand_id"])] = float(row["cost"]) if row["site_id"] else math.inf
+        ref = nx.single_source_dijkstra_path_length(g, s, weight="weight")
+        bad = sum(1 for v in range(3353) if not close(ours.get(v, -1.0), ref.get(v, math.inf),
+                                                      1e-12))
+        check(bad == 0, "rome99 through the edge-list table, to node %d: %d costs differ"
+              % (s, bad))
+
+
 def main():
     binary, work = sys.argv[1], sys.argv[2]
     exp = os.path.join(work, "export")
@@ -131,6 +172,7 @@ def main():
         check_export(os.path.join(exp, sub))
     if len(sys.argv) > 3 and os.path.exists(sys.argv[3]):
         check_rome(binary, sys.argv[3], work)
+        check_rome_tables(os.path.join(work, "rome99.csv"), work)
     else:
         check(False, "rome99.gr not found")
     print("travel_networkx: %d passed, %d failed" % (passed, failed))
