@@ -97,7 +97,6 @@ typedef struct loc_result {
     size_t n_nonzeros;         /* constraint matrix entries */
     double lagrange_bound;     /* median: Lagrangian lower bound (NAN when not run) */
     size_t n_fixed;            /* median: site variables fixed by the bounds */
-    size_t n_probed;           /* median: of which fixed by probing */
 } loc_result_t;
 
 void loc_result_destroy(loc_result_t *r);  /* NULL-safe; frees the arrays */

@@ -55,19 +55,8 @@ typedef struct lagr {
     double bound;      /* base + the p smallest c */
 } lagr_t;
 
-/* Forced state of a site: fixed-open or fixed open by a bound (1), fixed
- * closed by a bound (0), free (-1). 'fix' may be NULL. */
-static int forced(const loc_problem_t *p, const int *fix, size_t i)
-{
-    if (p->state[i] == LOC_FIXED_OPEN) return 1;
-    return fix != NULL ? fix[i] : -1;
-}
-
-/* Evaluate L(lambda) with 'count' sites to pick among the free ones: fills c,
- * order, rank, base and bound. Forced-open sites are in base; forced-closed
- * ones are left out; both have rank -1. */
-static void lagr_eval(const loc_problem_t *p, double lim, double pen, const int *fix, int count,
-                      lagr_t *g)
+/* Evaluate L(lambda): fills c, order, rank, base and bound. */
+static void lagr_eval(const loc_problem_t *p, double lim, double pen, int count, lagr_t *g)
 {
     g->base = 0;
     memset(g->c, 0, p->n_sites * sizeof *g->c);
@@ -83,11 +72,10 @@ static void lagr_eval(const loc_problem_t *p, double lim, double pen, const int 
     }
     g->n_free = 0;
     for (size_t i = 0; i < p->n_sites; i++) {
-        int f = forced(p, fix, i);
-        g->rank[i] = -1;
-        if (f == 1) {
+        if (p->state[i] == LOC_FIXED_OPEN) {
             g->base += g->c[i];
-        } else if (f < 0) {
+            g->rank[i] = -1;
+        } else {
             g->tmp[g->n_free].key = g->c[i];
             g->tmp[g->n_free++].site = (int)i;
         }
@@ -99,35 +87,25 @@ static void lagr_eval(const loc_problem_t *p, double lim, double pen, const int 
         g->rank[g->order[r]] = (int)r;
         if (r < (size_t)count) g->bound += g->c[g->order[r]];
     }
-    /* Fewer free sites than picks: no plan respects the fixings. */
-    if (g->n_free < (size_t)count) g->bound = INFINITY;
 }
 
-/* Subgradient search for a good lambda; keeps the best one in g->lambda.
- * start_cost (may be NULL: keep g->lambda) gives lambda_j = w_j start_cost_j. */
-static int lagr_search(const loc_problem_t *p, double lim, double pen, const int *fix, int count,
-                       double ub, const double *start_cost, int max_iter, double theta,
-                       lagr_t *g, err_t *e)
+/* Subgradient search for a good lambda; keeps the best one in g->lambda. */
+static int lagr_search(const loc_problem_t *p, double lim, double pen, int count, double ub,
+                       const double *start_cost, lagr_t *g, err_t *e)
 {
     double *best = malloc((p->n_units + 1) * sizeof *best);
     double *sg = malloc((p->n_units + 1) * sizeof *sg);
     unsigned char *open = calloc(p->n_sites + 1, 1);
-    double best_bound = -INFINITY;
+    double best_bound = -INFINITY, theta = 2.0;
     int stall = 0, rc = ERR_OK;
 
     if (!best || !sg || !open) {
         rc = err_set(e, ERR_NOMEM, "out of memory in the median Lagrangian bound");
         goto done;
     }
-    if (start_cost != NULL)
-        for (size_t j = 0; j < p->n_units; j++) g->lambda[j] = p->weight[j] * start_cost[j];
-    for (int it = 0; it < max_iter && theta > 1e-5; it++) {
-        lagr_eval(p, lim, pen, fix, count, g);
-        if (!isfinite(g->bound)) {
-            best_bound = g->bound;
-            memcpy(best, g->lambda, p->n_units * sizeof *best);
-            break;
-        }
+    for (size_t j = 0; j < p->n_units; j++) g->lambda[j] = p->weight[j] * start_cost[j];
+    for (int it = 0; it < 5000 && theta > 1e-5; it++) {
+        lagr_eval(p, lim, pen, count, g);
         if (g->bound > best_bound + 1e-9 * fmax(1.0, fabs(best_bound))) {
             best_bound = g->bound;
             memcpy(best, g->lambda, p->n_units * sizeof *best);
@@ -136,11 +114,10 @@ static int lagr_search(const loc_problem_t *p, double lim, double pen, const int
             theta /= 2;
             stall = 0;
         }
-        /* Stop once the bound proves UB optimal or beats it (a probe succeeded). */
         if (ub - best_bound <= 1e-9 * fmax(1.0, fabs(ub))) break;
         memset(open, 0, p->n_sites);
         for (size_t i = 0; i < p->n_sites; i++)
-            if (forced(p, fix, i) == 1) open[i] = 1;
+            if (p->state[i] == LOC_FIXED_OPEN) open[i] = 1;
         for (size_t r = 0; r < g->n_free && r < (size_t)count; r++) open[g->order[r]] = 1;
         double norm = 0;
         for (size_t j = 0; j < p->n_units; j++) {
@@ -161,77 +138,11 @@ static int lagr_search(const loc_problem_t *p, double lim, double pen, const int
         for (size_t j = 0; j < p->n_units; j++) g->lambda[j] += step * sg[j];
     }
     if (best_bound > -INFINITY) memcpy(g->lambda, best, p->n_units * sizeof *best);
-    lagr_eval(p, lim, pen, fix, count, g);
+    lagr_eval(p, lim, pen, count, g);
 done:
     free(best);
     free(sg);
     free(open);
-    return rc;
-}
-
-/* Picks left among free sites once 'fix' is applied. */
-static int free_picks(const loc_problem_t *p, const int *fix, int count)
-{
-    for (size_t i = 0; i < p->n_sites; i++)
-        if (p->state[i] != LOC_FIXED_OPEN && fix[i] == 1) count--;
-    return count;
-}
-
-/* Reduced-cost fixing on the current Lagrangian: returns the number fixed. */
-static size_t lagr_fix(const lagr_t *g, int cnt, double ub, double eps, int *fix)
-{
-    size_t n = 0;
-    if (cnt <= 0 || (size_t)cnt >= g->n_free) return 0;
-    double c_last = g->c[g->order[cnt - 1]], c_next = g->c[g->order[cnt]];
-    for (size_t q = 0; q < g->n_free; q++) {
-        int i = g->order[q];
-        if (q >= (size_t)cnt && g->bound + g->c[i] - c_last > ub + eps) fix[i] = 0;
-        if (q < (size_t)cnt && g->bound - g->c[i] + c_next > ub + eps) fix[i] = 1;
-        n += fix[i] >= 0;
-    }
-    return n;
-}
-
-/* Probing: force a free site the other way from the relaxation's choice and
- * re-optimise lambda briefly (warm start); when the bound then exceeds UB, no
- * plan better than UB has that site that way, so it is fixed as the relaxation
- * had it. Selected sites are probed closed, the nearest unselected ones open.
- * *n_fixed = sites fixed; g holds the root lambda, evaluated with the fixings. */
-static int lagr_probe(const loc_problem_t *p, double lim, double pen, int count, double ub,
-                      double eps, int *fix, lagr_t *g, size_t *n_fixed, err_t *e)
-{
-    double *lam0 = malloc((p->n_units + 1) * sizeof *lam0);
-    int *cand = malloc((p->n_sites + 1) * sizeof *cand);
-    int rc = ERR_OK, n_cand = 0, cnt = free_picks(p, fix, count);
-
-    *n_fixed = 0;
-    if (!lam0 || !cand) {
-        rc = err_set(e, ERR_NOMEM, "out of memory probing the median model");
-        goto done;
-    }
-    memcpy(lam0, g->lambda, p->n_units * sizeof *lam0);
-    /* The selected sites, then as many unselected ones, nearest the cut first. */
-    for (size_t q = 0; q < g->n_free && n_cand < 3 * cnt + 10; q++) cand[n_cand++] = g->order[q];
-    for (int k = 0; k < n_cand; k++) {
-        int i = cand[k], was_selected = k < cnt;
-        if (fix[i] >= 0) continue;
-        fix[i] = was_selected ? 0 : 1;
-        memcpy(g->lambda, lam0, p->n_units * sizeof *lam0);
-        rc = lagr_search(p, lim, pen, fix, free_picks(p, fix, count), ub, NULL, 150, 0.25, g, e);
-        if (rc != ERR_OK) goto done;
-        if (g->bound > ub + eps) {
-            fix[i] = was_selected ? 1 : 0;
-            (*n_fixed)++;
-        } else {
-            fix[i] = -1;
-        }
-    }
-    /* Leave g consistent with the root lambda and the fixings found. */
-    memcpy(g->lambda, lam0, p->n_units * sizeof *lam0);
-    lagr_eval(p, lim, pen, fix, free_picks(p, fix, count), g);
-done:
-    free(lam0);
-    free(cand);
     return rc;
 }
 
@@ -321,8 +232,7 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
                 }
             }
         }
-        if ((rc = lagr_search(p, lim, pen, NULL, count, ub, unit_cost, 5000, 2.0, &g, e)))
-            goto done;
+        if ((rc = lagr_search(p, lim, pen, count, ub, unit_cost, &g, e)) != ERR_OK) goto done;
         /* Lagrangian heuristic: the p sites the relaxation picks, improved by
          * swaps, often beat the greedy start; a lower UB fixes more. */
         {
@@ -344,23 +254,16 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
             if (rc != ERR_OK) goto done;
         }
         r->lagrange_bound = g.bound;
-        lagr_fix(&g, count, ub, eps, fix);
-        /* Probe only when the bound leaves a gap worth closing. */
-        if (ub - g.bound > eps && count > 0) {
-            size_t nprobe = 0;
-            if ((rc = lagr_probe(p, lim, pen, count, ub, eps, fix, &g, &nprobe, e))) goto done;
-            r->n_probed = nprobe;
-            if (nprobe > 0) {
-                /* Re-optimise with the fixings; level tests use this lambda. */
-                if ((rc = lagr_search(p, lim, pen, fix, free_picks(p, fix, count), ub, NULL, 1000,
-                                      0.5, &g, e)))
-                    goto done;
-                lagr_fix(&g, free_picks(p, fix, count), ub, eps, fix);
+        /* Reduced-cost fixing of site variables. */
+        if ((size_t)count < g.n_free && count > 0) {
+            double c_last = g.c[g.order[count - 1]], c_next = g.c[g.order[count]];
+            for (size_t q = 0; q < g.n_free; q++) {
+                int i = g.order[q];
+                if (q >= (size_t)count && g.bound + g.c[i] - c_last > ub + eps) fix[i] = 0;
+                if (q < (size_t)count && g.bound - g.c[i] + c_next > ub + eps) fix[i] = 1;
+                r->n_fixed += fix[i] >= 0;
             }
-        } else {
-            lagr_eval(p, lim, pen, fix, free_picks(p, fix, count), &g);
         }
-        for (size_t i = 0; i < p->n_sites; i++) r->n_fixed += fix[i] >= 0;
     }
 
     if ((rc = solver_mip_new("p-median", SOLVER_MIN, &m, e)) != ERR_OK) goto done;
@@ -409,8 +312,7 @@ int median_solve(const loc_problem_t *p, const loc_opts_t *o, loc_result_t *r, e
         double jterm = 0;       /* unit j's own share of the Lagrangian base */
         if (g.lambda != NULL) {
             jterm = g.lambda[j] + fmin(0.0, w * pen - g.lambda[j]);
-            size_t picks = (size_t)free_picks(p, fix, count);
-            ptr = picks < g.n_free ? picks : g.n_free;
+            ptr = (size_t)count < g.n_free ? (size_t)count : g.n_free;
             for (size_t q = 0; q < ptr; q++) s_bound += g.c[g.order[q]];
         }
         for (size_t k = 0; k < nl && !cut;) {
