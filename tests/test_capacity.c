@@ -8,6 +8,7 @@
 
 #include "capacity.h"
 #include "check.h"
+#include "cover.h"
 
 /* Villages A..E at 300, 600, 1200, 1800, 2100 s along a road with 100, 300,
  * 200, 50, 400 persons (1050). Sites: 0 = depot at B (600), 1 = depot at D
@@ -143,7 +144,16 @@ int main(void)
     CHECK_NEAR(r.unserved_weight, 0, 1e-9);
     loc_result_destroy(&r);
 
-    /* Bad options. */
+    /* Bad options and unfinished data. */
+    {
+        loc_problem_t *q = NULL;
+        CHECK(loc_new(1, 1, &q, &e) == ERR_OK);
+        CHECK(capacity_solve(q, &o, &r, &e) == ERR_INTERNAL);
+        CHECK_STR_HAS(e.msg, "capacity: problem data not finished");
+        CHECK(cover_max(q, &o, &r, &e) == ERR_INTERNAL);
+        CHECK_STR_HAS(e.msg, "covering: problem data not finished");
+        loc_free(q);
+    }
     o.p = 4;
     CHECK(capacity_solve(p, &o, &r, &e) == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "p = 4 is larger than the 3 candidate");
