@@ -144,6 +144,36 @@ int main(void)
     CHECK_NEAR(r.unserved_weight, 0, 1e-9);
     loc_result_destroy(&r);
 
+    /* Strong links go to each unit's 10 cheapest sites only; the capacity row
+     * must still tie x to y for the others, also when a site has no limit.
+     * One unit of 10 persons, sites 0..10 at 1..11 per person with fixed cost
+     * 1000, site 11 at 50 per person, no capacity limit, fixed cost F.
+     * F = 0: site 11 alone, 500. F = 10000: site 0, 1000 + 10 = 1010 (using
+     * site 11 without paying for it would give 500). */
+    {
+        loc_problem_t *q = NULL;
+        loc_opts_t qo;
+        CHECK(loc_new(1, 12, &q, &e) == ERR_OK);
+        q->weight[0] = 10;
+        for (size_t i = 0; i < 12; i++) {
+            q->fixed_cost[i] = i < 11 ? 1000 : 0;
+            CHECK(loc_add_pair(q, 0, i, i < 11 ? (double)(i + 1) : 50, &e) == ERR_OK);
+        }
+        CHECK(loc_finish(q, &e) == ERR_OK);
+        loc_opts_default(&qo);
+        CHECK(capacity_solve(q, &qo, &r, &e) == ERR_OK);
+        CHECK_NEAR(r.objective, 500, 1e-6);
+        CHECK(r.n_open == 1 && r.open[0] == 11);
+        loc_result_destroy(&r);
+        q->fixed_cost[11] = 10000;
+        CHECK(loc_finish(q, &e) == ERR_OK);
+        CHECK(capacity_solve(q, &qo, &r, &e) == ERR_OK);
+        CHECK_NEAR(r.objective, 1010, 1e-6);
+        CHECK(r.n_open == 1 && r.open[0] == 0);
+        loc_result_destroy(&r);
+        loc_free(q);
+    }
+
     /* Bad options and unfinished data. */
     {
         loc_problem_t *q = NULL;
