@@ -8,6 +8,7 @@
 
 #include "capacity.h"
 #include "check.h"
+#include "cover.h"
 
 /* Villages A..E at 300, 600, 1200, 1800, 2100 s along a road with 100, 300,
  * 200, 50, 400 persons (1050). Sites: 0 = depot at B (600), 1 = depot at D
@@ -143,7 +144,46 @@ int main(void)
     CHECK_NEAR(r.unserved_weight, 0, 1e-9);
     loc_result_destroy(&r);
 
-    /* Bad options. */
+    /* Strong links go to each unit's 10 cheapest sites only; the capacity row
+     * must still tie x to y for the others, also when a site has no limit.
+     * One unit of 10 persons, sites 0..10 at 1..11 per person with fixed cost
+     * 1000, site 11 at 50 per person, no capacity limit, fixed cost F.
+     * F = 0: site 11 alone, 500. F = 10000: site 0, 1000 + 10 = 1010 (using
+     * site 11 without paying for it would give 500). */
+    {
+        loc_problem_t *q = NULL;
+        loc_opts_t qo;
+        CHECK(loc_new(1, 12, &q, &e) == ERR_OK);
+        q->weight[0] = 10;
+        for (size_t i = 0; i < 12; i++) {
+            q->fixed_cost[i] = i < 11 ? 1000 : 0;
+            CHECK(loc_add_pair(q, 0, i, i < 11 ? (double)(i + 1) : 50, &e) == ERR_OK);
+        }
+        CHECK(loc_finish(q, &e) == ERR_OK);
+        loc_opts_default(&qo);
+        CHECK(capacity_solve(q, &qo, &r, &e) == ERR_OK);
+        CHECK_NEAR(r.objective, 500, 1e-6);
+        CHECK(r.n_open == 1 && r.open[0] == 11);
+        loc_result_destroy(&r);
+        q->fixed_cost[11] = 10000;
+        CHECK(loc_finish(q, &e) == ERR_OK);
+        CHECK(capacity_solve(q, &qo, &r, &e) == ERR_OK);
+        CHECK_NEAR(r.objective, 1010, 1e-6);
+        CHECK(r.n_open == 1 && r.open[0] == 0);
+        loc_result_destroy(&r);
+        loc_free(q);
+    }
+
+    /* Bad options and unfinished data. */
+    {
+        loc_problem_t *q = NULL;
+        CHECK(loc_new(1, 1, &q, &e) == ERR_OK);
+        CHECK(capacity_solve(q, &o, &r, &e) == ERR_INTERNAL);
+        CHECK_STR_HAS(e.msg, "capacity: problem data not finished");
+        CHECK(cover_max(q, &o, &r, &e) == ERR_INTERNAL);
+        CHECK_STR_HAS(e.msg, "covering: problem data not finished");
+        loc_free(q);
+    }
     o.p = 4;
     CHECK(capacity_solve(p, &o, &r, &e) == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "p = 4 is larger than the 3 candidate");

@@ -65,6 +65,19 @@ int main(void)
         solver_mip_free(m);
     }
 
+    /* An infeasible start (a=2, b=1: row 1 gives 7 > 5; or a fraction) is
+     * refused: GLPK would take it on trust and report a wrong optimum. */
+    {
+        double bad[4] = {0, 2, 1, 0}, frac[4] = {0, 0.5, 0, 0};
+        CHECK(build(&m, &e) == ERR_OK);
+        CHECK(solver_solve(m, &o, bad, &r, &e) == ERR_INTERNAL);
+        CHECK_STR_HAS(e.msg, "starting plan is not feasible (row 1 = 7");
+        CHECK(solver_solve(m, &o, frac, &r, &e) == ERR_INTERNAL);
+        CHECK_STR_HAS(e.msg, "column 1 = 0.5 is outside its bounds or not integral");
+        solver_result_destroy(&r);
+        solver_mip_free(m);
+    }
+
     /* Infeasible: x >= 2 and x <= 1. */
     {
         int first, one = 1;

@@ -212,9 +212,9 @@ void loc_opts_default(loc_opts_t *o)
 {
     memset(o, 0, sizeof *o);
     solver_opts_default(&o->solver);
-    /* Covering and median rows are >= with costs >= 0 (max cover: <= rows
-     * with gains), so the all-slack basis is dual feasible: the dual simplex is
-     * 3-6x faster on the root LP of the OR-Library p-median models. */
+    /* Median rows are >= with costs >= 0, so the all-slack basis is dual
+     * feasible: the dual simplex was 3-6x faster on the root LP of the
+     * OR-Library p-median models (docs/models.md). */
     o->solver.lp_dual = 1;
     o->p = -1;
     o->budget = INFINITY;

@@ -13,8 +13,10 @@
  *   - Lagrangian: relaxing "each unit served once" gives a lower bound L(lambda)
  *     (subgradient search); forcing z_k = 1 closes the sites within D_k, and if
  *     the bound of that restricted problem exceeds the heuristic's value UB, no
- *     plan better than UB has z_k = 1, so z_k and all later levels are dropped;
- *     the same test on single sites fixes y_i (reduced-cost fixing).
+ *     plan better than UB has z_k = 1, so z_k and all later levels are dropped
+ *     (unit j itself is kept out of the relaxation there: it pays >= w D_{k+1});
+ *     the same test on single sites fixes y_i (reduced-cost fixing);
+ *   - UB is the better of greedy + swaps and the relaxation's own p sites + swaps.
  * A dropped z_k turns its row into  sum_{d_ij = D_k} y_i >= z_{k-1}. */
 #include "median.h"
 

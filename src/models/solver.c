@@ -189,6 +189,50 @@ int solver_set_col_bounds(solver_mip_t *m, int col, double lo, double hi, err_t 
     return ERR_OK;
 }
 
+/* Check that 'x' (columns 1..n) respects every bound, integrality and row
+ * within a small tolerance. GLPK takes an offered incumbent on trust, so an
+ * infeasible start would be reported as an optimal plan with a wrong value. */
+static int start_is_feasible(glp_prob *P, const double *x, char *why, size_t n_why)
+{
+    int n = glp_get_num_cols(P), rows = glp_get_num_rows(P), ok = 1;
+    int *ind = malloc(((size_t)n + 1) * sizeof *ind);
+    double *val = malloc(((size_t)n + 1) * sizeof *val);
+
+    if (ind == NULL || val == NULL) {
+        free(ind);
+        free(val);
+        snprintf(why, n_why, "out of memory");
+        return 0;
+    }
+    for (int j = 1; j <= n && ok; j++) {
+        int t = glp_get_col_type(P, j);
+        double lo = glp_get_col_lb(P, j), hi = glp_get_col_ub(P, j), tol = 1e-6;
+        if (!isfinite(x[j]) || ((t == GLP_LO || t == GLP_DB || t == GLP_FX) && x[j] < lo - tol) ||
+            ((t == GLP_UP || t == GLP_DB || t == GLP_FX) && x[j] > hi + tol) ||
+            (glp_get_col_kind(P, j) != GLP_CV && fabs(x[j] - round(x[j])) > tol)) {
+            snprintf(why, n_why, "column %d = %g is outside its bounds or not integral", j, x[j]);
+            ok = 0;
+        }
+    }
+    for (int i = 1; i <= rows && ok; i++) {
+        int t = glp_get_row_type(P, i), len = glp_get_mat_row(P, i, ind, val);
+        double a = 0, scale = 1, lo = glp_get_row_lb(P, i), hi = glp_get_row_ub(P, i);
+        for (int k = 1; k <= len; k++) {
+            a += val[k] * x[ind[k]];
+            scale = fmax(scale, fabs(val[k] * x[ind[k]]));
+        }
+        double tol = 1e-6 * scale;
+        if (((t == GLP_LO || t == GLP_DB || t == GLP_FX) && a < lo - tol) ||
+            ((t == GLP_UP || t == GLP_DB || t == GLP_FX) && a > hi + tol)) {
+            snprintf(why, n_why, "row %d = %g breaks its bounds [%g, %g]", i, a, lo, hi);
+            ok = 0;
+        }
+    }
+    free(ind);
+    free(val);
+    return ok;
+}
+
 /* Branch-and-cut callback: offer the start once, track the bound and nodes. */
 static void on_tree(glp_tree *T, void *info)
 {
@@ -220,6 +264,12 @@ int solver_solve(solver_mip_t *m, const solver_opts_t *o, const double *start,
     res->objective = NAN;
     res->bound = NAN;
     if (m->P == NULL) return err_set(e, ERR_SOLVER, "model '%s' was lost after a GLPK failure", m->name);
+    if (start != NULL) {
+        char why[160];
+        if (!start_is_feasible(m->P, start, why, sizeof why))
+            return err_set(e, ERR_INTERNAL, "model '%s': the starting plan is not feasible (%s); "
+                           "this is a bug in the model or its heuristic", m->name, why);
+    }
 
     glp_init_iocp(&ip);
     ip.msg_lev = GLP_MSG_OFF;
