@@ -1358,6 +1358,14 @@ done:
 
 static int write_scenario(const demo_t *d, const char *path, err_t *e)
 {
+    /* The "bridge down" variant closes the first bridge written (bridge 1, on the
+     * primary road through the town), by its road id as write_roads numbers it. */
+    char bridge1[16] = "R001";
+    for (int j = 0; j < d->n_edges; j++)
+        if (d->edges[j].bridge) {
+            snprintf(bridge1, sizeof bridge1, "R%03d", j + 1);
+            break;
+        }
     FILE *f = fopen(path, "w");
     if (f == NULL)
         return err_set(e, ERR_IO, "gen-demo: cannot write '%s': %s", path, strerror(errno));
@@ -1384,8 +1392,12 @@ static int write_scenario(const demo_t *d, const char *path, err_t *e)
         "\"walk\": { \"speed_kmh\": 5.0, \"slope\": true },\n"
         "              \"landcover_factors\": { \"10\": 1.0, \"20\": 1.0, \"30\": 0.6, "
         "\"40\": 0.4, \"50\": 1.0, \"60\": 0 } },\n"
-        "  \"coverage\": { \"limit_min\": 60, \"bands_min\": [30, 60, 120] } }\n",
-        DISTRICT_NAME, (unsigned long long)d->seed);
+        "  \"coverage\": { \"limit_min\": 60, \"bands_min\": [30, 60, 120] },\n"
+        "  \"variants\": [\n"
+        "    { \"name\": \"bridge down\", \"close_roads\": { \"ids\": [\"%s\"] } },\n"
+        "    { \"name\": \"rainy season\",\n"
+        "      \"road_speed_factors\": { \"surface\": { \"unpaved\": 0.3 } } } ] }\n",
+        DISTRICT_NAME, (unsigned long long)d->seed, bridge1);
     if (fclose(f) != 0)
         return err_set(e, ERR_IO, "gen-demo: cannot finish '%s': %s", path, strerror(errno));
     return ERR_OK;
