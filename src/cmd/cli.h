@@ -34,5 +34,9 @@ int cmd_check(const cli_options_t *o, err_t *e);
 extern const char cmd_check_usage[];
 int cmd_reach(const cli_options_t *o, err_t *e);
 extern const char cmd_reach_usage[];
+int cmd_compare(const cli_options_t *o, err_t *e);
+extern const char cmd_compare_usage[];
+int cmd_links(const cli_options_t *o, err_t *e);
+extern const char cmd_links_usage[];
 
 #endif

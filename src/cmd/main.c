@@ -17,6 +17,10 @@ static const cli_command_t commands[] = {
      cmd_check},
     {"reach", "travel times to the nearest site, catchments, people by time band",
      cmd_reach_usage, 1, cmd_reach},
+    {"compare", "base and what-if variants side by side: who loses access",
+     cmd_compare_usage, 1, cmd_compare},
+    {"links", "rank road links by the harm of closing each one alone",
+     cmd_links_usage, 1, cmd_links},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 
