@@ -85,6 +85,15 @@ int network_attach_sources(network_t *net, const int64_t *nodes, size_t n, err_t
 /* Disable every virtual edge (weight +infinity, which igraph's Dijkstra ignores). */
 void network_detach_sources(network_t *net);
 
+/* The shortest-path tree of one nearest-site search from site_nodes[0..n) (as
+ * travel_nearest runs it, in the network's search direction): inbound[v] (n_nodes
+ * entries) is the id of the edge through which node v is settled, -1 for a site
+ * itself and -2 when v cannot be reached. Zero-weight connectors make "any tight
+ * edge" ambiguous (a node and its cell can be each other's tight neighbour), hence
+ * igraph's own tree. Errors: a node out of range, NOMEM, igraph failure. */
+int network_search_tree(network_t *net, const int64_t *site_nodes, size_t n_sites,
+                        int64_t *inbound, err_t *e);
+
 /* ---- What-if edits (src/whatif): a variant changes edge weights in place and
  * undoes them afterwards, so nothing is rebuilt. Edge ids 0..network_n_edges()-1
  * are the built edges (walking, road, connector); virtual edges come after and

@@ -803,3 +803,40 @@ void network_edit_reset(network_t *net)
         VECTOR(net->weights)[net->edits[net->n_edits].eid] = net->edits[net->n_edits].old;
     }
 }
+
+int network_search_tree(network_t *net, const int64_t *site_nodes, size_t n_sites,
+                        int64_t *inbound, err_t *e)
+{
+    igraph_vector_int_t parents, inb;
+    int par_ok = 0, inb_ok = 0, rc;
+    int64_t virt = network_virtual_node(net), n = network_n_nodes(net);
+
+    if ((rc = network_attach_sources(net, site_nodes, n_sites, e)) != ERR_OK) return rc;
+    if (igraph_vector_int_init(&parents, 0) != IGRAPH_SUCCESS) goto nomem;
+    par_ok = 1;
+    if (igraph_vector_int_init(&inb, 0) != IGRAPH_SUCCESS) goto nomem;
+    inb_ok = 1;
+    {
+        igraph_error_t ie = igraph_get_shortest_paths_dijkstra(
+            &net->graph, NULL, NULL, virt, igraph_vss_all(), &net->weights,
+            network_search_mode(net), &parents, &inb);
+        if (ie != IGRAPH_SUCCESS) {
+            rc = err_set(e, ie == IGRAPH_ENOMEM ? ERR_NOMEM : ERR_GRAPH,
+                         "shortest-path tree from %zu sites failed in igraph: %s", n_sites,
+                         igraph_strerror(ie));
+            goto done;
+        }
+    }
+    for (int64_t v = 0; v < n; v++) {
+        igraph_integer_t p = VECTOR(parents)[v];
+        inbound[v] = p == virt ? -1 : p < 0 ? -2 : VECTOR(inb)[v];
+    }
+    goto done;
+nomem:
+    rc = err_set(e, ERR_NOMEM, "out of memory for the shortest-path tree of %ld nodes", (long)n);
+done:
+    network_detach_sources(net);
+    if (par_ok) igraph_vector_int_destroy(&parents);
+    if (inb_ok) igraph_vector_int_destroy(&inb);
+    return rc;
+}

@@ -330,7 +330,8 @@ static int site_nodes(const network_t *net, const points_t *sites, int nx, int64
 int links_score(links_t *L, network_t *net, const double *people, const points_t *sites,
                 int nx, double limit_s, int n_threads, err_t *e)
 {
-    travel_result_t *tr = NULL;
+    double *T = NULL;
+    int32_t *order = NULL;
     int64_t *nodes = NULL, *pe = NULL, *ch_start = NULL;
     int32_t *ch = NULL, *tree_child = NULL, *link_of_redge = NULL;
     size_t *todo = NULL;
@@ -347,7 +348,10 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
                        "sites.existing");
     if ((rc = site_nodes(net, sites, nx, &nodes, e)) != ERR_OK) goto done;
     t0 = progress_now();
-    if ((rc = travel_nearest(net, nodes, sites->n, &tr, e)) != ERR_OK) goto done;
+    pe = malloc((size_t)n * sizeof *pe);
+    T = malloc((size_t)n * sizeof *T);
+    if (pe == NULL || T == NULL) goto nomem;
+    if ((rc = network_search_tree(net, nodes, sites->n, pe, e)) != ERR_OK) goto done;
     L->seconds_base = progress_now() - t0;
     t0 += L->seconds_base;
     if (nseg > 0) {
@@ -356,13 +360,12 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
         network_seg_edges(net, nseg - 1, &f, &m);
         r1 = f + m;
     }
-    pe = malloc((size_t)n * sizeof *pe);
     ch_start = calloc((size_t)n + 1, sizeof *ch_start);
     ch = malloc((size_t)n * sizeof *ch);
     tree_child = malloc((size_t)(r1 - r0 + 1) * sizeof *tree_child);
     link_of_redge = malloc((size_t)(r1 - r0 + 1) * sizeof *link_of_redge);
     todo = malloc((L->n + 1) * sizeof *todo);
-    if (!pe || !ch_start || !ch || !tree_child || !link_of_redge || !todo) goto nomem;
+    if (!ch_start || !ch || !tree_child || !link_of_redge || !todo) goto nomem;
     for (int64_t k = 0; k < r1 - r0; k++) {
         tree_child[k] = -1;
         link_of_redge[k] = -1;
@@ -382,20 +385,11 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
         int search_in = network_search_mode(net) == IGRAPH_IN;
         const igraph_integer_t *in_st = search_in ? os : is, *in_ix = search_in ? oi : ii;
         const igraph_integer_t *in_other = search_in ? to : from;
-        const double *T = tr->time_s;
-        /* One tight parent edge per node (the tree). */
-        for (int64_t v = 0; v < n; v++) {
-            pe[v] = -1;
-            if (!(T[v] > 0) || !isfinite(T[v])) continue;
-            for (igraph_integer_t j = in_st[v]; j < in_st[v + 1]; j++) {
-                igraph_integer_t e2 = in_ix[j], u = in_other[e2];
-                if (u < n && T[u] + wt[e2] == T[v]) {
-                    pe[v] = e2;
-                    ch_start[u + 1]++;
-                    break;
-                }
-            }
-        }
+        size_t head = 0, tail = 0;
+        /* Children lists of the tree, then times from the sites down, in the order
+         * of the tree (the same sums as the search: parent time + edge weight). */
+        for (int64_t v = 0; v < n; v++)
+            if (pe[v] >= 0) ch_start[in_other[pe[v]] + 1]++;
         for (int64_t v = 0; v < n; v++) ch_start[v + 1] += ch_start[v];
         {
             int64_t *fillp = malloc(((size_t)n + 1) * sizeof *fillp);
@@ -409,6 +403,24 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
             }
             free(fillp);
         }
+        order = malloc(((size_t)n + 1) * sizeof *order);
+        if (order == NULL) goto nomem;
+        for (int64_t v = 0; v < n; v++) {
+            T[v] = INFINITY;
+            if (pe[v] == -1) {
+                T[v] = 0.0;
+                order[tail++] = (int32_t)v;
+            }
+        }
+        while (head < tail) {
+            int32_t u = order[head++];
+            for (int64_t j = ch_start[u]; j < ch_start[u + 1]; j++) {
+                int32_t v = ch[j];
+                T[v] = T[u] + wt[pe[v]];
+                order[tail++] = v;
+            }
+        }
+        (void)os; (void)oi; (void)is; (void)ii; (void)in_st; (void)in_ix;
         c.search_in = search_in;
     }
     L->n_on_tree = 0;
@@ -428,7 +440,7 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
 
     c.L = L;
     c.net = net;
-    c.T = tr->time_s;
+    c.T = T;
     c.people = people;
     c.n = n;
     c.n_cells = network_n_cells(net);
@@ -471,7 +483,8 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
 nomem:
     rc = err_set(e, ERR_NOMEM, "out of memory scoring %zu road links", L->n);
 done:
-    travel_result_free(tr);
+    free(T);
+    free(order);
     free(nodes);
     free(pe);
     free(ch_start);
