@@ -829,7 +829,9 @@ int network_search_tree(network_t *net, const int64_t *site_nodes, size_t n_site
     }
     for (int64_t v = 0; v < n; v++) {
         igraph_integer_t p = VECTOR(parents)[v];
-        inbound[v] = p == virt ? -1 : p < 0 ? -2 : VECTOR(inb)[v];
+        /* igraph also settles nodes through +inf edges (at infinite distance). */
+        if (p < 0 || !isfinite(VECTOR(net->weights)[VECTOR(inb)[v]])) inbound[v] = -2;
+        else inbound[v] = p == virt ? -1 : VECTOR(inb)[v];
     }
     goto done;
 nomem:
