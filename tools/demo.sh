@@ -44,6 +44,8 @@ step() {
 
 step check "$bin" check "$scenario"
 step reach "$bin" reach "$scenario" -o "$out/reach"
+step compare "$bin" compare "$scenario" -o "$out/compare"
+step links "$bin" links "$scenario" -o "$out/links"
 # Later stages add one line each, e.g.:
 # step plan "$bin" plan "$scenario" -o "$out"
 
