@@ -18,3 +18,11 @@ for cells in 1000000 10000000; do
     echo "## travel, $cells cells"
     "$bin" --cells "$cells" --sites 200 --searches 1000 --limit-min 60 --threads 2 || exit 1
 done
+# What-if variants and critical links (tools/bench-whatif.c): 100 variants on a
+# 1M-cell grid (time per variant and its ratio to a full rebuild), and the ranking
+# of about 10,000 road links (time, links skipped by the tree rule).
+wbin="$build/tools/bench-whatif"
+if [ -x "$wbin" ]; then
+    echo "## what-if"
+    "$wbin" --cells 1000000 --variants 100 --link-cells 490000 --threads 2 || exit 1
+fi
