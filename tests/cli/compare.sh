@@ -103,4 +103,20 @@ expect_fail 1 "has no field 'lanes'" "$BIN" compare "$F/bad_field.json" -o "$WOR
 expect_fail 1 "missing.geojson" "$BIN" compare "$F/no_flood.json" -o "$WORK/o10"
 expect_fail 1 "both named 'x'" "$BIN" compare "$F/same_name.json" -o "$WORK/o11"
 expect_fail 2 "no output folder given" "$BIN" compare "$F/good.json"
+
+# The demo district (when generated): both variants conserve its people, and the
+# bridge closed in "bridge down" scores the same in links.
+if [ -f scenarios/demo/scenario.json ]; then
+    expect_ok "$BIN" compare scenarios/demo/scenario.json -o "$WORK/demo" --quiet
+    O=$WORK/demo
+    tot=$(v 'd["people_total"]')
+    for name in "bridge down" "rainy season"; do
+        check_num "demo conservation $name" "$(v "sum(b['people'] for b in vs['$name']['bands'])")" "$tot" 1e-6
+    done
+    expect_ok "$BIN" links scenarios/demo/scenario.json -o "$WORK/demol" --quiet
+    br=$($PY -c "import json; print(json.load(open('scenarios/demo/scenario.json'))['variants'][0]['close_roads']['ids'][0])")
+    check_num "demo bridge links = compare" \
+        "$($PY -c "import csv; print([r for r in csv.DictReader(open('$WORK/demol/links.csv')) if r['road_id'] == '$br'][0]['pushed_beyond_limit'])")" \
+        "$(v 'vs["bridge down"]["pushed_beyond_limit"]')" 1e-6
+fi
 finish
