@@ -127,14 +127,18 @@ done:
     return rc;
 }
 
-/* One run; *no_site is set when the plain fallback had to be used. */
+/* One run; *no_site is set when the plain fallback had to be used. The base
+ * scenario gets no fallback: its errors are the reach stage's own. */
 static int run(const inputs_t *in, network_t *net, const points_t *sites, const districts_t *d,
-               int n_threads, reach_result_t *res, int *no_site, err_t *e)
+               int n_threads, int fallback, reach_result_t *res, int *no_site, err_t *e)
 {
     err_t e2 = {0};
     *no_site = 0;
+    if (!fallback) return reach_run(in, net, sites, d, n_threads, 1, res, e);
     if (sites->n > 0 && reach_run(in, net, sites, d, n_threads, 1, res, &e2) == ERR_OK)
         return ERR_OK;
+    /* Every input error of the reach stage other than "no site can be reached" would
+     * already have stopped the base run. */
     if (sites->n > 0 && e2.code != ERR_INPUT) {
         *e = e2;
         return e2.code;
@@ -268,16 +272,18 @@ static int write_variant_files(const char *outdir, const inputs_t *in, const com
     return rc;
 }
 
-static const compare_result_t *sort_ctx;
+/* Ranking keys copied out of the results, so qsort needs no outside state. */
+typedef struct rank_key {
+    double pushed, hours;
+    size_t idx;
+} rank_key_t;
+
 static int cmp_rank(const void *a, const void *b)
 {
-    const compare_variant_t *x = &sort_ctx->v[*(const size_t *)a];
-    const compare_variant_t *y = &sort_ctx->v[*(const size_t *)b];
-    if (x->diff.pushed_beyond != y->diff.pushed_beyond)
-        return x->diff.pushed_beyond < y->diff.pushed_beyond ? 1 : -1;
-    if (x->diff.added_person_h != y->diff.added_person_h)
-        return x->diff.added_person_h < y->diff.added_person_h ? 1 : -1;
-    return (*(const size_t *)a > *(const size_t *)b) - (*(const size_t *)a < *(const size_t *)b);
+    const rank_key_t *x = a, *y = b;
+    if (x->pushed != y->pushed) return x->pushed < y->pushed ? 1 : -1;
+    if (x->hours != y->hours) return x->hours < y->hours ? 1 : -1;
+    return (x->idx > y->idx) - (x->idx < y->idx);
 }
 
 static table_t *ranking_table(const inputs_t *in, const compare_result_t *res)
@@ -431,7 +437,7 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
     res->total_people = g->total_people;
 
     progress_start(&pr, "base scenario");
-    rc = run(in, net, bsites, districts, n_threads, &base, &no_site, e);
+    rc = run(in, net, bsites, districts, n_threads, 0, &base, &no_site, e);
     res->seconds_base = progress_end(&pr);
     if (rc != ERR_OK) goto done;
     res->base_within_limit = base.people_within_limit;
@@ -482,7 +488,7 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
         cv->people_flooded = va.people_flooded;
         cv->edges_changed = va.edges_changed;
         cv->n_sites = va.sites.n;
-        rc = run(in, net, &va.sites, districts, n_threads, &cur, &cv->no_site, e);
+        rc = run(in, net, &va.sites, districts, n_threads, 1, &cur, &cv->no_site, e);
         network_edit_reset(net);
         if (rc != ERR_OK) {
             err_prefix(e, "variant '%s': ", v->name);
@@ -506,10 +512,15 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
         progress_end(&pr);
     }
 
-    for (size_t i = 0; i < res->n; i++) res->rank[i] = i;
-    sort_ctx = res;
-    qsort(res->rank, res->n, sizeof *res->rank, cmp_rank);
-    sort_ctx = NULL;
+    {
+        rank_key_t *keys = malloc((res->n ? res->n : 1) * sizeof *keys);
+        if (keys == NULL) goto nomem;
+        for (size_t i = 0; i < res->n; i++)
+            keys[i] = (rank_key_t){res->v[i].diff.pushed_beyond, res->v[i].diff.added_person_h, i};
+        qsort(keys, res->n, sizeof *keys, cmp_rank);
+        for (size_t i = 0; i < res->n; i++) res->rank[i] = keys[i].idx;
+        free(keys);
+    }
     for (size_t q = 0; q < res->n; q++)
         cJSON_SetNumberValue(cJSON_GetObjectItem(cJSON_GetArrayItem(varr, (int)res->rank[q]),
                                                  "rank"), (double)(q + 1));

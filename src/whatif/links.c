@@ -304,17 +304,21 @@ done:
     return NULL;
 }
 
-static const links_t *rank_ctx;
+/* Ranking keys copied out of the links, so qsort needs no outside state. */
+typedef struct rank_key {
+    double pushed, cut, hours;
+    int bridge;
+    size_t idx;
+} rank_key_t;
+
 static int cmp_links(const void *a, const void *b)
 {
-    size_t i = *(const size_t *)a, j = *(const size_t *)b;
-    const link_t *x = &rank_ctx->l[i], *y = &rank_ctx->l[j];
-    if (x->pushed_beyond != y->pushed_beyond) return x->pushed_beyond < y->pushed_beyond ? 1 : -1;
-    if (x->cut_off != y->cut_off) return x->cut_off < y->cut_off ? 1 : -1;
-    if (x->added_person_h != y->added_person_h)
-        return x->added_person_h < y->added_person_h ? 1 : -1;
+    const rank_key_t *x = a, *y = b;
+    if (x->pushed != y->pushed) return x->pushed < y->pushed ? 1 : -1;
+    if (x->cut != y->cut) return x->cut < y->cut ? 1 : -1;
+    if (x->hours != y->hours) return x->hours < y->hours ? 1 : -1;
     if (x->bridge != y->bridge) return x->bridge ? -1 : 1;
-    return (i > j) - (i < j);
+    return (x->idx > y->idx) - (x->idx < y->idx);
 }
 
 static int site_nodes(const network_t *net, const points_t *sites, int nx, int64_t **out,
@@ -474,10 +478,16 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
         for (int i = 0; i < started; i++) pthread_join(th[i], NULL);
     }
     if (atomic_load(&c.failed)) goto nomem;
-    for (size_t k = 0; k < L->n; k++) L->rank[k] = k;
-    rank_ctx = L;
-    qsort(L->rank, L->n, sizeof *L->rank, cmp_links);
-    rank_ctx = NULL;
+    {
+        rank_key_t *keys = malloc((L->n ? L->n : 1) * sizeof *keys);
+        if (keys == NULL) goto nomem;
+        for (size_t k = 0; k < L->n; k++)
+            keys[k] = (rank_key_t){L->l[k].pushed_beyond, L->l[k].cut_off,
+                                   L->l[k].added_person_h, L->l[k].bridge, k};
+        qsort(keys, L->n, sizeof *keys, cmp_links);
+        for (size_t k = 0; k < L->n; k++) L->rank[k] = keys[k].idx;
+        free(keys);
+    }
     L->seconds_scores = progress_now() - t0;
     goto done;
 nomem:
