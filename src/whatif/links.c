@@ -668,4 +668,18 @@ void links_print(const inputs_t *in, const links_t *L, size_t top)
                r->feature_ids[sg->feature], r->classes[lk->cls].name, lk->bridge ? "yes" : "no",
                lk->length_m / 1000.0, lk->pushed_beyond, lk->cut_off, lk->added_person_h);
     }
+    /* Bridges are the usual single points of failure: list each with its rank. */
+    if (nb > 0) {
+        size_t shown = 0;
+        printf("bridges:");
+        for (size_t q = 0; q < L->n && shown < 20; q++) {
+            const link_t *lk = &L->l[L->rank[q]];
+            if (!lk->bridge) continue;
+            printf("%s %s rank %zu (%.0f pushed out, %.0f cut off)", shown ? "," : "",
+                   r->feature_ids[r->segs[L->seg_list[lk->seg0]].feature], q + 1,
+                   lk->pushed_beyond, lk->cut_off);
+            shown++;
+        }
+        printf("%s\n", nb > shown ? ", ..." : "");
+    }
 }

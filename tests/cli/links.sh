@@ -9,6 +9,7 @@ F=$WORK/fx O=$WORK/out1
 
 expect_ok "$BIN" links "$F/good.json" -o "$O" --threads 2
 expect_out "most critical links"
+expect_out "bridges: R2 rank 1 (450 pushed out, 450 cut off)"
 for f in links.csv links.gpkg summary.json; do
     if [ -s "$O/$f" ]; then ok; else bad "missing output $f"; fi
 done
