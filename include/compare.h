@@ -61,6 +61,8 @@ typedef struct compare_variant {
     double people_flooded;
     size_t edges_changed;
     int no_site;             /* 1 when no open site was left or none could be reached */
+    int incremental;         /* 1: times from the repaired base tree (sptree_resettle) */
+    size_t nodes_resettled;  /* nodes searched again when incremental */
     double seconds;          /* time for this variant (apply, search, compare) */
 } compare_variant_t;
 
@@ -76,7 +78,8 @@ typedef struct compare_result {
 
 /* Run the base and every variant of in->scen; write compare.csv, compare_bands.csv,
  * compare_sites.csv, delta_<slug>.tif and affected_<slug>.gpkg into outdir and add
- * the "compare" section to 'summary'. Errors: no variants in the scenario, a variant
+ * the "compare" section to 'summary'. n_threads is accepted for later use (every run
+ * is one search on this thread). Errors: no variants in the scenario, a variant
  * naming an unknown road or site, unreadable flood layers, write failures.
  * Caller destroys 'res' with compare_result_destroy. */
 int compare_run(const inputs_t *in, network_t *net, const districts_t *districts,

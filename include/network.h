@@ -120,5 +120,7 @@ int network_edit_cells(network_t *net, const uint8_t *mask, double factor, size_
 void network_edit_reset(network_t *net);
 /* Edits recorded since the last reset (an edge edited twice counts twice). */
 size_t network_n_edits(const network_t *net);
+/* Edit i (0 = oldest): the edge and its weight before that edit. */
+void network_edit_get(const network_t *net, size_t i, int64_t *eid, double *old_w);
 
 #endif

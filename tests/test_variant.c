@@ -13,6 +13,7 @@
 #include "network.h"
 #include "scen_variants.h"
 #include "scenario.h"
+#include "sptree.h"
 #include "travel.h"
 #include "variant.h"
 
@@ -434,6 +435,90 @@ done:
     free_grid(w.g);
 }
 
+/* The repaired tree against a full igraph search on the edited network, for
+ * closures, slower roads, flooded and slowed cells and closed sites, alone and
+ * together, in both travel directions. */
+static void check_resettle(network_t *net, const sptree_t *t, const int64_t *sites,
+                           const uint8_t *closed, size_t n_sites, const char *what)
+{
+    int64_t n = network_n_nodes(net), open_nodes[4];
+    size_t ne = network_n_edits(net), n_open = 0, nres = 0;
+    int64_t *ch = malloc((ne + 1) * sizeof *ch);
+    double *tv = malloc((size_t)n * sizeof *tv), old;
+    int32_t *sv = malloc((size_t)n * sizeof *sv);
+    travel_result_t *full = NULL;
+    err_t e = {0};
+    int bad = 0;
+
+    for (size_t i = 0; i < ne; i++) network_edit_get(net, i, &ch[i], &old);
+    for (size_t i = 0; i < n_sites; i++)
+        if (closed == NULL || !closed[i]) open_nodes[n_open++] = sites[i];
+    CHECK(sptree_resettle(t, net, ch, ne, closed, n_sites, tv, sv, &nres, &e) == ERR_OK);
+    CHECK(travel_nearest(net, open_nodes, n_open, &full, &e) == ERR_OK);
+    for (int64_t v = 0; full != NULL && v < n; v++) {
+        double a = tv[v], b = full->time_s[v];
+        if (!((isinf(a) && isinf(b)) || fabs(a - b) <= 1e-9 * fmax(1.0, b))) bad++;
+        if ((sv[v] < 0) != isinf(a)) bad++;
+        if (sv[v] >= 0 && closed != NULL && closed[sv[v]]) bad++;
+    }
+    if (bad) fprintf(stderr, "resettle '%s': %d nodes differ\n", what, bad);
+    CHECK(bad == 0);
+    travel_result_free(full);
+    free(ch);
+    free(tv);
+    free(sv);
+}
+
+static void test_resettle(int direction)
+{
+    world_t w;
+    network_t *net = NULL;
+    sptree_t t = {0};
+    int64_t sites[2] = {12 + 1, 12 + 10}, first, n;
+    uint8_t closed[2] = {1, 0}, none[2] = {0, 0};
+    uint8_t *mask = calloc(36, 1);
+    err_t e = {0};
+
+    mk_world(&w);
+    w.s.direction = direction;
+    for (int r = 0; r < 3; r++) mask[r * 12 + 8] = mask[r * 12 + 9] = 1;
+    CHECK(network_build(w.g, &w.r, &w.s, &net, &e) == ERR_OK);
+    if (net == NULL) goto done;
+    CHECK(sptree_build(net, sites, 2, &t, &e) == ERR_OK);
+    {
+        /* The tree's own times equal a full search. */
+        travel_result_t *full = NULL;
+        int bad = 0;
+        CHECK(travel_nearest(net, sites, 2, &full, &e) == ERR_OK);
+        for (int64_t v = 0; full && v < t.n; v++) bad += t.time_s[v] != full->time_s[v];
+        CHECK(bad == 0);
+        travel_result_free(full);
+    }
+    check_resettle(net, &t, sites, none, 2, "nothing");
+    network_seg_edges(net, 1, &first, &n);
+    for (int64_t k = first; k < first + n; k++) network_edit_edge(net, k, INFINITY, &e);
+    check_resettle(net, &t, sites, none, 2, "bridge closed");
+    check_resettle(net, &t, sites, closed, 2, "bridge closed and S1 closed");
+    network_edit_reset(net);
+    network_seg_edges(net, 2, &first, &n);
+    for (int64_t k = first; k < first + n; k++)
+        network_edit_edge(net, k, 4 * network_edge_weight(net, k), &e);
+    check_resettle(net, &t, sites, none, 2, "track slowed");
+    CHECK(network_edit_cells(net, mask, 0.5, NULL, &e) == ERR_OK);
+    check_resettle(net, &t, sites, none, 2, "track and cells slowed");
+    network_edit_reset(net);
+    CHECK(network_edit_cells(net, mask, 0.0, NULL, &e) == ERR_OK);
+    check_resettle(net, &t, sites, closed, 2, "flood and S1 closed");
+    network_edit_reset(net);
+    check_resettle(net, &t, sites, closed, 2, "S1 closed");
+done:
+    sptree_destroy(&t);
+    sptree_destroy(NULL);
+    network_free(net);
+    free_grid(w.g);
+    free(mask);
+}
+
 /* compare_cells on five cells worked by hand: limit 60 s, bands 30 and 60 s. */
 static void test_compare_cells(void)
 {
@@ -484,6 +569,8 @@ int main(void)
     test_parse();
     test_edit_cells();
     test_apply();
+    test_resettle(SCEN_TO_SITE);
+    test_resettle(SCEN_FROM_SITE);
     test_compare_cells();
     test_slug();
     return CHECK_DONE("test_variant");

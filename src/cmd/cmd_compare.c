@@ -16,7 +16,7 @@
 #include "summary.h"
 
 const char cmd_compare_usage[] =
-    "usage: sitereach compare SCENARIO.json -o OUTDIR [--json] [--quiet] [--threads N]\n"
+    "usage: sitereach compare SCENARIO.json -o OUTDIR [--json] [--quiet]\n"
     "\n"
     "Runs the base scenario and each of its variants (the \"variants\" list: roads\n"
     "closed, a flood extent, rainy-season speeds, sites closed or opened; see\n"
@@ -32,8 +32,7 @@ const char cmd_compare_usage[] =
     "  summary.json            inputs with checksums, the \"compare\" section, timings\n"
     "\n"
     "  --json        print summary.json on stdout instead of the human summary\n"
-    "  --quiet       no progress lines and no human summary\n"
-    "  --threads N   threads for the bounded searches (default: all cores)\n";
+    "  --quiet       no progress lines and no human summary\n";
 
 int cmd_compare(const cli_options_t *o, err_t *e)
 {

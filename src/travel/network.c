@@ -728,6 +728,12 @@ int64_t network_n_edges(const network_t *net) { return net->n_edges; }
 size_t network_n_segs(const network_t *net) { return net->n_segs; }
 size_t network_n_edits(const network_t *net) { return net->n_edits; }
 
+void network_edit_get(const network_t *net, size_t i, int64_t *eid, double *old_w)
+{
+    *eid = net->edits[i].eid;
+    *old_w = net->edits[i].old;
+}
+
 int network_seg_edges(const network_t *net, size_t seg, int64_t *first, int64_t *n)
 {
     if (seg >= net->n_segs) return 0;

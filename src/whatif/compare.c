@@ -14,6 +14,7 @@
 #include "output.h"
 #include "progress.h"
 #include "scen_variants.h"
+#include "sptree.h"
 #include "table.h"
 #include "travel.h"
 #include "variant.h"
@@ -81,11 +82,13 @@ void compare_result_destroy(compare_result_t *res)
     memset(res, 0, sizeof *res);
 }
 
-/* Nearest-site times, bands and loads without the capacity searches: for a
- * variant with no open site left, or whose every site is cut off (which the
- * reach stage refuses as an input error, rightly for a base scenario). */
+/* Bands and loads of one run. Times and labels per node come from 'pre_time' and
+ * 'pre_site' when given (a repaired search tree), else from a full nearest-site
+ * search. The capacity-aware assignment of the reach stage is not run: compare
+ * reports nearest-site loads. */
 static int plain_run(const inputs_t *in, network_t *net, const points_t *sites,
-                     const districts_t *d, reach_result_t *res, err_t *e)
+                     const districts_t *d, const double *pre_time, const int32_t *pre_site,
+                     reach_result_t *res, err_t *e)
 {
     const grid_t *g = in->grid;
     travel_result_t *tr = NULL;
@@ -109,11 +112,15 @@ static int plain_run(const inputs_t *in, network_t *net, const points_t *sites,
                                      (int)(sites->cell[i] / g->nx));
         res->capacity[i] = sites->capacity[i];
     }
-    if ((rc = travel_nearest(net, nodes, sites->n, &tr, e)) != ERR_OK) goto done;
+    if (pre_time == NULL) {
+        if ((rc = travel_nearest(net, nodes, sites->n, &tr, e)) != ERR_OK) goto done;
+        pre_time = tr->time_s;
+        pre_site = tr->site;
+    }
     for (size_t c = 0; c < res->n_cells; c++) {
-        res->time_s[c] = tr->time_s[c];
-        res->site[c] = tr->site[c];
-        if (tr->time_s[c] <= in->scen->limit_s) res->people_within_limit += g->people[c];
+        res->time_s[c] = pre_time[c];
+        res->site[c] = pre_site[c];
+        if (pre_time[c] <= in->scen->limit_s) res->people_within_limit += g->people[c];
     }
     rc = coverage_bands(res->n_cells, g->people, res->time_s, d ? d->cell : NULL, d ? d->n : 0,
                         in->scen->bands_s, in->scen->n_bands, &res->bands, e);
@@ -127,24 +134,69 @@ done:
     return rc;
 }
 
-/* One run; *no_site is set when the plain fallback had to be used. The base
- * scenario gets no fallback: its errors are the reach stage's own. */
-static int run(const inputs_t *in, network_t *net, const points_t *sites, const districts_t *d,
-               int n_threads, int fallback, reach_result_t *res, int *no_site, err_t *e)
+/* 1 when every edit since the last reset made its edge slower or closed it. */
+static int edits_only_slow(const network_t *net)
 {
-    err_t e2 = {0};
-    *no_site = 0;
-    if (!fallback) return reach_run(in, net, sites, d, n_threads, 1, res, e);
-    if (sites->n > 0 && reach_run(in, net, sites, d, n_threads, 1, res, &e2) == ERR_OK)
-        return ERR_OK;
-    /* Every input error of the reach stage other than "no site can be reached" would
-     * already have stopped the base run. */
-    if (sites->n > 0 && e2.code != ERR_INPUT) {
-        *e = e2;
-        return e2.code;
+    for (size_t i = 0; i < network_n_edits(net); i++) {
+        int64_t eid;
+        double old;
+        network_edit_get(net, i, &eid, &old);
+        if (!(network_edge_weight(net, eid) >= old)) return 0;
     }
-    *no_site = 1;
-    return plain_run(in, net, sites, d, res, e);
+    return 1;
+}
+
+/* One variant's times and labels (cells and road nodes) into tv/sv, by repairing
+ * the base tree when the variant only slows or closes edges and closes sites (the
+ * usual case: closures, rain, floods), else by a full search (sites opened, faster
+ * roads). Labels are indices into the variant's site list 'vs', which is the base
+ * list 'bs' minus closed sites, then opened ones. *incremental says which ran. */
+static int variant_times(const inputs_t *in, network_t *net, const sptree_t *base,
+                         const points_t *bs, const points_t *vs, size_t n_opened, double *tv,
+                         int32_t *sv, int *incremental, size_t *n_resettled, err_t *e)
+{
+    uint8_t *closed = NULL;
+    int32_t *map = NULL;
+    int64_t n = network_n_nodes(net);
+    int64_t *changed = NULL;
+    size_t ne = network_n_edits(net), k = 0;
+    int rc = ERR_OK;
+
+    (void)in;
+    *incremental = 0;
+    *n_resettled = 0;
+    if (n_opened > 0 || !edits_only_slow(net)) return ERR_OK;
+    closed = calloc(bs->n ? bs->n : 1, 1);
+    map = malloc((bs->n ? bs->n : 1) * sizeof *map);
+    changed = malloc((ne ? ne : 1) * sizeof *changed);
+    if (closed == NULL || map == NULL || changed == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory comparing variants");
+        goto done;
+    }
+    /* vs holds the open base sites in base order: walk both lists together. */
+    for (size_t i = 0, j = 0; i < bs->n; i++) {
+        if (j < vs->n && strcmp(bs->id[i], vs->id[j]) == 0) {
+            map[i] = (int32_t)j++;
+        } else {
+            map[i] = -1;
+            closed[i] = 1;
+        }
+    }
+    for (size_t i = 0; i < ne; i++) {
+        double old;
+        network_edit_get(net, i, &changed[k], &old);
+        k++;
+    }
+    rc = sptree_resettle(base, net, changed, k, closed, bs->n, tv, sv, n_resettled, e);
+    if (rc != ERR_OK) goto done;
+    for (int64_t v = 0; v < n; v++)
+        if (sv[v] >= 0) sv[v] = (size_t)sv[v] < bs->n ? map[sv[v]] : -1;
+    *incremental = 1;
+done:
+    free(closed);
+    free(map);
+    free(changed);
+    return rc;
 }
 
 static void band_name(const band_table_t *t, size_t col, char *buf, size_t n)
@@ -377,6 +429,8 @@ static cJSON *variant_json(const inputs_t *in, const districts_t *d, const compa
         cJSON_AddNumberToObject(ch, "cells_flooded", (double)v->cells_flooded);
         cJSON_AddNumberToObject(ch, "people_in_flood", v->people_flooded);
         cJSON_AddNumberToObject(ch, "edges_changed", (double)v->edges_changed);
+        cJSON_AddStringToObject(ch, "search", v->incremental ? "repaired base tree" : "full");
+        cJSON_AddNumberToObject(ch, "nodes_searched_again", v->incremental ? (double)v->nodes_resettled : NAN);
     }
     files = cJSON_AddObjectToObject(o, "files");
     {
@@ -405,6 +459,9 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
     const grid_t *g = in->grid;
     size_t n_cells = (size_t)g->nx * (size_t)g->ny;
     reach_result_t base = {0}, cur = {0};
+    sptree_t tree = {0};
+    double *vtime = NULL;
+    int32_t *vsite = NULL;
     variant_applied_t va = {0};
     points_t empty = {0};
     const points_t *bsites = in->existing != NULL ? in->existing : &empty;
@@ -414,8 +471,10 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
     cJSON *cj, *varr;
     progress_t pr;
     char *p = NULL;
-    int rc = ERR_OK, no_site = 0;
+    int rc = ERR_OK;
 
+    /* Each run is one search (or a tree repair) on this thread; no bounded searches. */
+    (void)n_threads;
     memset(res, 0, sizeof *res);
     progress_init(&pr, quiet);
     if (sv == NULL || sv->n == 0)
@@ -436,10 +495,28 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
     }
     res->total_people = g->total_people;
 
+    if (bsites->n == 0) {
+        rc = err_set(e, ERR_INPUT, "scenario '%s' names no open sites; give a point layer in "
+                     "sites.existing", s->file);
+        goto done;
+    }
     progress_start(&pr, "base scenario");
-    rc = run(in, net, bsites, districts, n_threads, 0, &base, &no_site, e);
+    {
+        int64_t *nodes = malloc(bsites->n * sizeof *nodes);
+        if (nodes == NULL) goto nomem;
+        for (size_t i = 0; i < bsites->n; i++)
+            nodes[i] = network_cell_node(net, (int)(bsites->cell[i] % g->nx),
+                                         (int)(bsites->cell[i] / g->nx));
+        rc = sptree_build(net, nodes, bsites->n, &tree, e);
+        free(nodes);
+    }
+    if (rc == ERR_OK)
+        rc = plain_run(in, net, bsites, districts, tree.time_s, tree.site, &base, e);
     res->seconds_base = progress_end(&pr);
     if (rc != ERR_OK) goto done;
+    vtime = malloc((size_t)network_n_nodes(net) * sizeof *vtime);
+    vsite = malloc((size_t)network_n_nodes(net) * sizeof *vsite);
+    if (vtime == NULL || vsite == NULL) goto nomem;
     res->base_within_limit = base.people_within_limit;
     res->base_unreachable = coverage_band_total(&base.bands, base.bands.n_bands + 1);
     res->base_sites = bsites->n;
@@ -488,11 +565,21 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
         cv->people_flooded = va.people_flooded;
         cv->edges_changed = va.edges_changed;
         cv->n_sites = va.sites.n;
-        rc = run(in, net, &va.sites, districts, n_threads, 1, &cur, &cv->no_site, e);
+        rc = variant_times(in, net, &tree, bsites, &va.sites, va.sites_opened, vtime, vsite,
+                           &cv->incremental, &cv->nodes_resettled, e);
+        if (rc == ERR_OK)
+            rc = plain_run(in, net, &va.sites, districts, cv->incremental ? vtime : NULL,
+                           cv->incremental ? vsite : NULL, &cur, e);
         network_edit_reset(net);
         if (rc != ERR_OK) {
             err_prefix(e, "variant '%s': ", v->name);
             goto done;
+        }
+        {
+            /* No open site, or none that reaches anyone beyond its own cell. */
+            size_t reached = 0;
+            for (size_t c = 0; c < n_cells; c++) reached += isfinite(cur.time_s[c]) && cur.time_s[c] > 0;
+            cv->no_site = va.sites.n == 0 || reached == 0;
         }
         cv->within_limit = cur.people_within_limit;
         cv->unreachable = coverage_band_total(&cur.bands, cur.bands.n_bands + 1);
@@ -552,6 +639,9 @@ done:
     table_free(rt);
     reach_result_destroy(&base);
     reach_result_destroy(&cur);
+    sptree_destroy(&tree);
+    free(vtime);
+    free(vsite);
     variant_applied_destroy(&va);
     if (rc != ERR_OK) compare_result_destroy(res);
     return rc;

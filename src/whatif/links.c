@@ -1,9 +1,9 @@
 /* links: critical road links (see include/links.h).
- * Scoring. One igraph nearest-site search gives the base time T of every node.
- * Its shortest-path tree is rebuilt by picking, for each node, one search edge
- * from a node u with T[u] + w == T[v] exactly (the same sum Dijkstra made, so the
- * equality is exact). Closing a link can only lengthen paths that use one of its
- * edges; in a tree those are the nodes below the link's tree edges. Every other
+ * Scoring. One igraph nearest-site search gives the base time T of every node and
+ * its shortest-path tree (sptree_build; igraph's own tree, since zero-weight
+ * connectors make "any tight edge" ambiguous). Closing a link can only lengthen
+ * paths that use one of its edges; in a tree those are the nodes below the link's
+ * tree edges. Every other
  * node keeps its time. So per link: collect the subtrees S below its tree edges,
  * seed each node of S with its best edge from a node outside S (not through the
  * closed link), and run Dijkstra inside S only. A link with no tree edge changes
@@ -21,6 +21,7 @@
 
 #include "output.h"
 #include "progress.h"
+#include "sptree.h"
 #include "table.h"
 #include "travel.h"
 
@@ -334,10 +335,9 @@ static int site_nodes(const network_t *net, const points_t *sites, int nx, int64
 int links_score(links_t *L, network_t *net, const double *people, const points_t *sites,
                 int nx, double limit_s, int n_threads, err_t *e)
 {
-    double *T = NULL;
-    int32_t *order = NULL;
-    int64_t *nodes = NULL, *pe = NULL, *ch_start = NULL;
-    int32_t *ch = NULL, *tree_child = NULL, *link_of_redge = NULL;
+    sptree_t tree = {0};
+    int64_t *nodes = NULL;
+    int32_t *tree_child = NULL, *link_of_redge = NULL;
     size_t *todo = NULL;
     pthread_t *th = NULL;
     ctx_t c;
@@ -352,10 +352,7 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
                        "sites.existing");
     if ((rc = site_nodes(net, sites, nx, &nodes, e)) != ERR_OK) goto done;
     t0 = progress_now();
-    pe = malloc((size_t)n * sizeof *pe);
-    T = malloc((size_t)n * sizeof *T);
-    if (pe == NULL || T == NULL) goto nomem;
-    if ((rc = network_search_tree(net, nodes, sites->n, pe, e)) != ERR_OK) goto done;
+    if ((rc = sptree_build(net, nodes, sites->n, &tree, e)) != ERR_OK) goto done;
     L->seconds_base = progress_now() - t0;
     t0 += L->seconds_base;
     if (nseg > 0) {
@@ -364,12 +361,10 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
         network_seg_edges(net, nseg - 1, &f, &m);
         r1 = f + m;
     }
-    ch_start = calloc((size_t)n + 1, sizeof *ch_start);
-    ch = malloc((size_t)n * sizeof *ch);
     tree_child = malloc((size_t)(r1 - r0 + 1) * sizeof *tree_child);
     link_of_redge = malloc((size_t)(r1 - r0 + 1) * sizeof *link_of_redge);
     todo = malloc((L->n + 1) * sizeof *todo);
-    if (!ch_start || !ch || !tree_child || !link_of_redge || !todo) goto nomem;
+    if (!tree_child || !link_of_redge || !todo) goto nomem;
     for (int64_t k = 0; k < r1 - r0; k++) {
         tree_child[k] = -1;
         link_of_redge[k] = -1;
@@ -380,53 +375,12 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
             if (!network_seg_edges(net, (size_t)L->seg_list[L->l[k].seg0 + q], &f, &m)) continue;
             for (int64_t x = f; x < f + m; x++) link_of_redge[x - r0] = (int32_t)k;
         }
-    {
-        const igraph_t *g = network_graph(net);
-        const igraph_integer_t *from = VECTOR(g->from), *to = VECTOR(g->to);
-        const igraph_integer_t *os = VECTOR(g->os), *oi = VECTOR(g->oi);
-        const igraph_integer_t *is = VECTOR(g->is), *ii = VECTOR(g->ii);
-        const double *wt = VECTOR(*network_weights(net));
-        int search_in = network_search_mode(net) == IGRAPH_IN;
-        const igraph_integer_t *in_st = search_in ? os : is, *in_ix = search_in ? oi : ii;
-        const igraph_integer_t *in_other = search_in ? to : from;
-        size_t head = 0, tail = 0;
-        /* Children lists of the tree, then times from the sites down, in the order
-         * of the tree (the same sums as the search: parent time + edge weight). */
-        for (int64_t v = 0; v < n; v++)
-            if (pe[v] >= 0) ch_start[in_other[pe[v]] + 1]++;
-        for (int64_t v = 0; v < n; v++) ch_start[v + 1] += ch_start[v];
-        {
-            int64_t *fillp = malloc(((size_t)n + 1) * sizeof *fillp);
-            if (fillp == NULL) goto nomem;
-            memcpy(fillp, ch_start, ((size_t)n + 1) * sizeof *fillp);
-            for (int64_t v = 0; v < n; v++) {
-                if (pe[v] < 0) continue;
-                int64_t u = in_other[pe[v]];
-                ch[fillp[u]++] = (int32_t)v;
-                if (pe[v] >= r0 && pe[v] < r1) tree_child[pe[v] - r0] = (int32_t)v;
-            }
-            free(fillp);
-        }
-        order = malloc(((size_t)n + 1) * sizeof *order);
-        if (order == NULL) goto nomem;
-        for (int64_t v = 0; v < n; v++) {
-            T[v] = INFINITY;
-            if (pe[v] == -1) {
-                T[v] = 0.0;
-                order[tail++] = (int32_t)v;
-            }
-        }
-        while (head < tail) {
-            int32_t u = order[head++];
-            for (int64_t j = ch_start[u]; j < ch_start[u + 1]; j++) {
-                int32_t v = ch[j];
-                T[v] = T[u] + wt[pe[v]];
-                order[tail++] = v;
-            }
-        }
-        (void)os; (void)oi; (void)is; (void)ii; (void)in_st; (void)in_ix;
-        c.search_in = search_in;
+    /* The tree edge above each node: mark the road edges among them. */
+    for (int64_t v = 0; v < n; v++) {
+        int64_t pe = tree.inbound[v];
+        if (pe >= r0 && pe < r1) tree_child[pe - r0] = (int32_t)v;
     }
+    c.search_in = network_search_mode(net) == IGRAPH_IN;
     L->n_on_tree = 0;
     for (size_t k = 0; k < L->n; k++) {
         link_t *lk = &L->l[k];
@@ -444,7 +398,7 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
 
     c.L = L;
     c.net = net;
-    c.T = T;
+    c.T = tree.time_s;
     c.people = people;
     c.n = n;
     c.n_cells = network_n_cells(net);
@@ -453,8 +407,8 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
     c.r1 = r1;
     c.link_of_redge = link_of_redge;
     c.tree_child = tree_child;
-    c.ch_start = ch_start;
-    c.ch = ch;
+    c.ch_start = tree.ch_start;
+    c.ch = tree.ch;
     c.todo = todo;
     c.n_todo = L->n_on_tree;
     atomic_init(&c.next, 0);
@@ -493,12 +447,8 @@ int links_score(links_t *L, network_t *net, const double *people, const points_t
 nomem:
     rc = err_set(e, ERR_NOMEM, "out of memory scoring %zu road links", L->n);
 done:
-    free(T);
-    free(order);
+    sptree_destroy(&tree);
     free(nodes);
-    free(pe);
-    free(ch_start);
-    free(ch);
     free(tree_child);
     free(link_of_redge);
     free(todo);
