@@ -4,9 +4,11 @@
  *  1. Variants: a square grid of about N cells of 100 m (rolling hills, slope on)
  *     with a road lattice every 50 cells and 200 sites. V variants, each closing 8
  *     random road segments, slowing 40 others to 30 % and (every tenth) flooding a
- *     block of 40 x 40 cells, each followed by a nearest-site pass and a cell-by-cell
- *     comparison with the base, then undone. Compared with a full rebuild of the
- *     network plus one pass, which is what a variant would cost without edits.
+ *     block of 40 x 40 cells and closing 5 sites, each followed by the repair of the
+ *     base search tree (as compare does) and a cell-by-cell comparison with the
+ *     base, then undone. Every tenth variant is also searched in full, to check the
+ *     repair and to time that path. Compared with a full rebuild of the network plus
+ *     one pass, which is what a variant would cost without edits.
  *  2. Links: a grid of about M cells with a road lattice every 10 cells (about
  *     10,000 links for M = 490,000), vehicles, 50 sites, limit 30 min: time to rank
  *     every link, and how many the tree rule skipped. */
@@ -20,6 +22,7 @@
 #include "compare.h"
 #include "links.h"
 #include "network.h"
+#include "sptree.h"
 #include "travel.h"
 
 static double now_s(void)
@@ -138,13 +141,17 @@ static int bench_variants(long cells, long n_var)
     size_t nc = (size_t)n * n;
     scen_t s;
     network_t *net = NULL;
-    travel_result_t *base = NULL, *var = NULL;
-    int64_t sites[200];
-    uint8_t *mask = calloc(nc, 1);
+    sptree_t tree = {0};
+    travel_result_t *var = NULL;
+    int64_t sites[200], *changed = NULL;
+    uint8_t *mask = calloc(nc, 1), closed[200];
     float *delta = malloc(nc * sizeof *delta);
-    int32_t *label = malloc(nc * sizeof *label);
+    int32_t *label = malloc(nc * sizeof *label), *sv = NULL;
+    double *tv = NULL;
     const double limits[3] = {1800, 3600, 7200};
     double pushed = 0, t_apply = 0, t_search = 0, t_cmp = 0, c_full = 0, c_var = 0;
+    double t_fullpass = 0, resettled = 0, worst = 0, t_full_g = 0;
+    long n_fullpass = 0;
     err_t e = {0};
 
     memset(&s, 0, sizeof s);
@@ -155,30 +162,32 @@ static int bench_variants(long cells, long n_var)
     printf("## variants on %d x %d = %zu cells, %zu road segments, 200 sites\n", n, n, nc,
            r->n_segs);
     for (int i = 0; i < 200; i++) sites[i] = (int64_t)(rnd() % nc);
-    double t0 = now_s();
     if (network_build(g, r, &s, &net, &e) != ERR_OK ||
-        travel_nearest(net, sites, 200, &base, &e) != ERR_OK)
+        sptree_build(net, sites, 200, &tree, &e) != ERR_OK)
         goto fail;
-    double t_full = now_s() - t0;
-    /* A second rebuild timed alone, as a variant without edits would need. */
+    tv = malloc((size_t)network_n_nodes(net) * sizeof *tv);
+    sv = malloc((size_t)network_n_nodes(net) * sizeof *sv);
     {
+        /* A rebuild plus one full pass, timed alone. */
         network_t *n2 = NULL;
         travel_result_t *r2 = NULL;
-        t0 = now_s();
+        double t0 = now_s();
         c_full = cpu_s();
         if (network_build(g, r, &s, &n2, &e) != ERR_OK ||
             travel_nearest(n2, sites, 200, &r2, &e) != ERR_OK)
             goto fail;
-        t_full = now_s() - t0;
+        t_full_g = now_s() - t0;
         c_full = cpu_s() - c_full;
         travel_result_free(r2);
         network_free(n2);
     }
-    printf("full_rebuild_and_pass_s: %.3f (cpu %.3f)\n", t_full, c_full);
+    printf("full_rebuild_and_pass_s: %.3f (cpu %.3f)\n", t_full_g, c_full);
     c_var = cpu_s();
     for (long v = 0; v < n_var; v++) {
         compare_diff_t d;
-        double t1 = now_s();
+        double t1 = now_s(), old;
+        size_t ne, nres = 0;
+        memset(closed, 0, sizeof closed);
         for (int k = 0; k < 8; k++)
             if (edit_seg(net, rnd() % r->n_segs, 0.0, &e)) goto fail;
         for (int k = 0; k < 40; k++)
@@ -189,41 +198,72 @@ static int bench_variants(long cells, long n_var)
             for (int rr = r0; rr < r0 + 40; rr++)
                 for (int cc = c0; cc < c0 + 40; cc++) mask[(size_t)rr * n + cc] = 1;
             if (network_edit_cells(net, mask, 0.0, NULL, &e) != ERR_OK) goto fail;
+            for (int k = 0; k < 5; k++) closed[rnd() % 200] = 1;
         }
+        ne = network_n_edits(net);
+        free(changed);
+        changed = malloc((ne + 1) * sizeof *changed);
+        for (size_t i = 0; i < ne; i++) network_edit_get(net, i, &changed[i], &old);
         double t2 = now_s();
-        if (travel_nearest(net, sites, 200, &var, &e) != ERR_OK) goto fail;
+        if (sptree_resettle(&tree, net, changed, ne, closed, 200, tv, sv, &nres, &e) != ERR_OK)
+            goto fail;
         double t3 = now_s();
-        if (compare_cells(nc, g->people, base->time_s, var->time_s, 3600, limits, 3, NULL, 0,
-                          &d, delta, label, &e) != ERR_OK)
+        resettled += (double)nres;
+        if (compare_cells(nc, g->people, tree.time_s, tv, 3600, limits, 3, NULL, 0, &d, delta,
+                          label, &e) != ERR_OK)
             goto fail;
         pushed += d.pushed_beyond;
-        if ((v + 1) % 10 == 0) fprintf(stderr, "bench-whatif: %ld variants done\n", v + 1);
         compare_diff_destroy(&d);
-        travel_result_free(var);
-        var = NULL;
-        network_edit_reset(net);
         double t4 = now_s();
         t_apply += t2 - t1;
         t_search += t3 - t2;
         t_cmp += t4 - t3;
+        if (v % 10 == 0) {
+            /* The same variant by a full search: same times (to 1e-9), and its cost. */
+            int64_t open[200];
+            size_t n_open = 0;
+            double t5 = now_s();
+            for (int i = 0; i < 200; i++)
+                if (!closed[i]) open[n_open++] = sites[i];
+            if (travel_nearest(net, open, n_open, &var, &e) != ERR_OK) goto fail;
+            t_fullpass += now_s() - t5;
+            n_fullpass++;
+            for (size_t c = 0; c < nc; c++) {
+                double a = tv[c], b = var->time_s[c];
+                double dd = isinf(a) && isinf(b) ? 0 : fabs(a - b) / fmax(1.0, b);
+                if (dd > worst) worst = dd;
+            }
+            travel_result_free(var);
+            var = NULL;
+        }
+        network_edit_reset(net);
+        if ((v + 1) % 10 == 0) fprintf(stderr, "bench-whatif: %ld variants done\n", v + 1);
     }
     {
         double per = (t_apply + t_search + t_cmp) / (double)n_var;
         printf("variants: %ld\n", n_var);
-        printf("per_variant_s: %.3f (edits %.4f, nearest pass %.3f, compare %.3f)\n", per,
+        printf("per_variant_s: %.3f (edits %.4f, tree repair %.3f, compare %.3f)\n", per,
                t_apply / n_var, t_search / n_var, t_cmp / n_var);
-        double cper = (cpu_s() - c_var) / (double)n_var;
-        printf("per_variant_cpu_s: %.3f\n", cper);
-        printf("ratio_to_full_rebuild: %.2f (cpu %.2f)\n", per / t_full, cper / c_full);
+        printf("mean_nodes_searched_again: %.0f of %ld\n", resettled / (double)n_var,
+               (long)network_n_nodes(net));
+        printf("full_search_per_variant_s: %.3f (%ld variants; largest relative difference "
+               "from the repair %.2g)\n", t_fullpass / (double)(n_fullpass ? n_fullpass : 1),
+               n_fullpass, worst);
+        printf("cpu_all_variants_s: %.2f (repairs, comparisons and the full checks)\n",
+               cpu_s() - c_var);
+        printf("ratio_to_full_rebuild: %.3f\n", per / t_full_g);
         printf("mean_people_pushed_beyond_60_min: %.0f\n", pushed / (double)n_var);
     }
-    travel_result_free(base);
+    sptree_destroy(&tree);
     network_free(net);
     free_roads(r);
     free_grid(g);
     free(mask);
     free(delta);
     free(label);
+    free(tv);
+    free(sv);
+    free(changed);
     return 0;
 fail:
     fprintf(stderr, "bench-whatif: %s\n", e.msg);
