@@ -430,7 +430,8 @@ static cJSON *variant_json(const inputs_t *in, const districts_t *d, const compa
         cJSON_AddNumberToObject(ch, "people_in_flood", v->people_flooded);
         cJSON_AddNumberToObject(ch, "edges_changed", (double)v->edges_changed);
         cJSON_AddStringToObject(ch, "search", v->incremental ? "repaired base tree" : "full");
-        cJSON_AddNumberToObject(ch, "nodes_searched_again", v->incremental ? (double)v->nodes_resettled : NAN);
+        if (v->incremental)
+            cJSON_AddNumberToObject(ch, "nodes_searched_again", (double)v->nodes_resettled);
     }
     files = cJSON_AddObjectToObject(o, "files");
     {
@@ -578,7 +579,8 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
         {
             /* No open site, or none that reaches anyone beyond its own cell. */
             size_t reached = 0;
-            for (size_t c = 0; c < n_cells; c++) reached += isfinite(cur.time_s[c]) && cur.time_s[c] > 0;
+            for (size_t c = 0; c < n_cells; c++)
+                reached += isfinite(cur.time_s[c]) && cur.time_s[c] > 0;
             cv->no_site = va.sites.n == 0 || reached == 0;
         }
         cv->within_limit = cur.people_within_limit;

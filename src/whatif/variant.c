@@ -222,7 +222,8 @@ int variant_apply(network_t *net, const inputs_t *in, const scen_variant_t *v,
         out->segs_slowed += slowed;
     }
     /* Closures by id and by attribute. */
-    for (size_t k = 0; k < v->n_close_road_ids; k++) feat_hit[find_road(r, v->close_road_ids[k])] = 1;
+    for (size_t k = 0; k < v->n_close_road_ids; k++)
+        feat_hit[find_road(r, v->close_road_ids[k])] = 1;   /* validated above */
     for (size_t i = 0; i < n_segs; i++) {
         int32_t f = r->segs[i].feature;
         int closed = feat_hit[f];
