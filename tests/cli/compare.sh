@@ -101,6 +101,7 @@ expect_fail 1 "not a candidate site" "$BIN" compare "$F/bad_open.json" -o "$WORK
 expect_fail 1 "variants[0].road_speed_factors.surface.unpaved" "$BIN" compare "$F/zero_factor.json" -o "$WORK/o8"
 expect_fail 1 "has no field 'lanes'" "$BIN" compare "$F/bad_field.json" -o "$WORK/o9"
 expect_fail 1 "missing.geojson" "$BIN" compare "$F/no_flood.json" -o "$WORK/o10"
+expect_fail 1 "a flood extent must be polygons" "$BIN" compare "$F/flood_points.json" -o "$WORK/o12"
 expect_fail 1 "both named 'x'" "$BIN" compare "$F/same_name.json" -o "$WORK/o11"
 expect_fail 2 "no output folder given" "$BIN" compare "$F/good.json"
 

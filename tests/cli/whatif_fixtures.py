@@ -142,6 +142,7 @@ write("zero_factor.json", {"variants": [{"name": "x",
 write("bad_field.json", {"variants": [{"name": "x",
                                        "road_speed_factors": {"lanes": {"2": 0.5}}}]})
 write("no_flood.json", {"variants": [{"name": "x", "flood": {"path": "missing.geojson"}}]})
+write("flood_points.json", {"variants": [{"name": "x", "flood": {"path": "sites.geojson"}}]})
 write("same_name.json", {"variants": [{"name": "x", "close_sites": ["S1"]},
                                       {"name": "x", "close_sites": ["S1"]}]})
 write("no_roads.json", {"inputs": {"population": "pop.tif"}})
