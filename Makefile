@@ -7,7 +7,7 @@
 #   make install PREFIX=/usr/local
 # Set WERROR=1 (CI does) to turn warnings into errors.
 
-PKGS     := igraph gdal libcjson proj cairo libcrypto
+PKGS     := igraph gdal libcjson proj cairo fontconfig libcrypto
 CC       ?= cc
 BUILD    ?= build
 PREFIX   ?= /usr/local
@@ -38,11 +38,13 @@ LIB_SRC  := $(sort $(filter-out src/cmd/%,$(wildcard src/*/*.c)))
 CMD_SRC  := $(sort $(wildcard src/cmd/*.c))
 TEST_SRC := $(sort $(wildcard tests/test_*.c))
 TOOL_SRC := $(sort $(wildcard tools/*.c))
+SUPPORT_SRC := $(sort $(wildcard tests/support/*.c))
 
 LIB_OBJ  := $(LIB_SRC:%.c=$(BUILD)/%.o)
 CMD_OBJ  := $(CMD_SRC:%.c=$(BUILD)/%.o)
 TESTS    := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 TOOLS    := $(TOOL_SRC:tools/%.c=$(BUILD)/tools/%)
+SUPPORT_OBJ := $(SUPPORT_SRC:%.c=$(BUILD)/%.o)
 LIBA     := $(BUILD)/libsitereach.a
 BIN      := $(BUILD)/sitereach
 
@@ -66,9 +68,14 @@ $(LIBA): $(LIB_OBJ)
 $(BIN): $(CMD_OBJ) $(LIBA)
 	$(CC) $(CFLAGS) $(LDFLAGS) -o $@ $^ $(LDLIBS)
 
-$(BUILD)/tests/%: tests/%.c tests/check.h $(LIBA)
+# Shared test builders (tests/support) are linked into every test.
+$(BUILD)/tests/support/%.o: tests/support/%.c
 	@mkdir -p $(dir $@)
-	$(CC) $(CFLAGS) -Itests $(LDFLAGS) -o $@ $< $(LIBA) $(LDLIBS)
+	$(CC) $(CFLAGS) -Itests/support -MMD -MP -c $< -o $@
+
+$(BUILD)/tests/%: tests/%.c tests/check.h $(SUPPORT_OBJ) $(LIBA)
+	@mkdir -p $(dir $@)
+	$(CC) $(CFLAGS) -Itests -Itests/support $(LDFLAGS) -o $@ $< $(SUPPORT_OBJ) $(LIBA) $(LDLIBS)
 
 $(BUILD)/tools/%: tools/%.c $(LIBA)
 	@mkdir -p $(dir $@)

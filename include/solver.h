@@ -23,6 +23,8 @@ typedef struct solver_opts {
     double rel_gap;         /* stop when (incumbent - bound)/|incumbent| <= rel_gap; 0 = exact */
     int presolve;           /* 1 = run GLPK's LP presolver (default) */
     int cuts;               /* 1 = GLPK's Gomory/MIR/cover/clique cuts */
+    int lp_dual;            /* 1 = root LP by the dual simplex (fast when the all-slack
+                             * basis is dual feasible, as in covering/median models) */
 } solver_opts_t;
 
 typedef struct solver_result {
@@ -43,7 +45,7 @@ typedef struct solver_mip solver_mip_t;
 enum { SOLVER_MIN = 0, SOLVER_MAX = 1 };
 enum { SOLVER_CONTINUOUS = 0, SOLVER_INTEGER = 1, SOLVER_BINARY = 2 };
 
-void solver_opts_default(solver_opts_t *o);  /* no limit, gap 0, presolve on, cuts off */
+void solver_opts_default(solver_opts_t *o);  /* no limit, gap 0, presolve on, cuts off, primal */
 
 /* Create an empty MIP named 'name' (for messages). Caller frees with solver_mip_free. */
 int solver_mip_new(const char *name, int sense, solver_mip_t **out, err_t *e);

@@ -15,98 +15,15 @@
 #include <ogr_srs_api.h>
 
 #include "check.h"
+#include "fixtures.h"
 #include "points.h"
 
 static char tmpdir[64];
 
-static grid_t *mk_grid(int nx, int ny, double x0, double y0, double cs, int epsg)
-{
-    grid_t *g = calloc(1, sizeof *g);
-    OGRSpatialReferenceH srs = OSRNewSpatialReference(NULL);
-    char *wkt = NULL;
 
-    OSRImportFromEPSG(srs, epsg);
-    OSRExportToWkt(srs, &wkt);
-    g->wkt = strdup(wkt);
-    CPLFree(wkt);
-    g->geographic = OSRIsGeographic(srs);
-    OSRDestroySpatialReference(srs);
-    g->nx = nx;
-    g->ny = ny;
-    g->gt[0] = x0;
-    g->gt[1] = cs;
-    g->gt[3] = y0;
-    g->gt[5] = -cs;
-    g->people = calloc((size_t)nx * (size_t)ny, sizeof *g->people);
-    return g;
-}
 
-static void free_grid(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->wkt);
-    free(g->people);
-    free(g->barrier);
-    free(g);
-}
 
-typedef struct feat {
-    const char *wkt;
-    const char *v[5];
-} feat_t;
 
-static void write_layer(const char *path, const char *driver, int epsg,
-                        OGRwkbGeometryType type, const char *const *fields, const feat_t *fs,
-                        size_t n)
-{
-    GDALDriverH drv = GDALGetDriverByName(driver);
-    GDALDatasetH ds;
-    OGRSpatialReferenceH srs = NULL;
-    OGRLayerH l;
-    int nf = 0;
-
-    unlink(path);
-    ds = GDALCreate(drv, path, 0, 0, 0, GDT_Unknown, NULL);
-    if (ds == NULL) {
-        fprintf(stderr, "cannot create %s\n", path);
-        exit(2);
-    }
-    if (epsg > 0) {
-        srs = OSRNewSpatialReference(NULL);
-        OSRImportFromEPSG(srs, epsg);
-    }
-    l = GDALDatasetCreateLayer(ds, "sites", srs, type, NULL);
-    for (; fields && fields[nf] && nf < 5; nf++) {
-        OGRFieldDefnH fd = OGR_Fld_Create(fields[nf], OFTString);
-        OGR_L_CreateField(l, fd, 1);
-        OGR_Fld_Destroy(fd);
-    }
-    for (size_t i = 0; i < n; i++) {
-        OGRFeatureH f = OGR_F_Create(OGR_L_GetLayerDefn(l));
-        OGRGeometryH geom = NULL;
-        char *w = (char *)fs[i].wkt;
-        OGR_G_CreateFromWkt(&w, srs, &geom);
-        OGR_F_SetGeometryDirectly(f, geom);
-        for (int k = 0; k < nf; k++)
-            if (fs[i].v[k] != NULL) OGR_F_SetFieldString(f, k, fs[i].v[k]);
-        if (OGR_L_CreateFeature(l, f) != OGRERR_NONE) {
-            fprintf(stderr, "cannot write feature %zu to %s\n", i, path);
-            exit(2);
-        }
-        OGR_F_Destroy(f);
-    }
-    if (srs) OSRDestroySpatialReference(srs);
-    GDALClose(ds);
-}
-
-static const char *tpath(const char *name)
-{
-    static char buf[8][128];
-    static int k;
-    k = (k + 1) % 8;
-    snprintf(buf[k], sizeof buf[k], "%s/%s", tmpdir, name);
-    return buf[k];
-}
 
 static const char *const FIELDS[] = {"code", "label", "cap", "cost", "stor", NULL};
 
@@ -128,17 +45,17 @@ static scen_layer_t full_layer(const char *path)
 static void test_happy(void)
 {
     /* 100 x 100 cells of 10 m; extent 0..1000 m both ways. */
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
-    feat_t fs[] = {
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
+    fx_feat_t fs[] = {
         {"POINT (5 995)", {"s-1", "Upper well", "1500", "200.5", "40"}},
         {"POINT (999.5 0.5)", {"s-2", NULL, "0", "0", "0"}},
         {"MULTIPOINT ((505 505))", {"s-3", "Market", "inf", "1", "inf"}},
     };
-    scen_layer_t l = full_layer(tpath("sites.gpkg"));
+    scen_layer_t l = full_layer(fx_path(tmpdir, "sites.gpkg"));
     points_t *p = NULL;
     err_t e = {0};
 
-    write_layer(l.path, "GPKG", UTM, wkbUnknown, FIELDS, fs, 3);
+    fx_write_layer(l.path, "GPKG", "sites", UTM, wkbUnknown, FIELDS, fs, 3);
     CHECK(points_load(&l, "existing sites", g, &p, &e) == ERR_OK);
     CHECK(p != NULL && p->n == 3);
     if (p != NULL && p->n == 3) {
@@ -170,21 +87,21 @@ static void test_happy(void)
     }
     /* An empty layer gives no points. */
     {
-        scen_layer_t le = full_layer(tpath("none.gpkg"));
-        write_layer(le.path, "GPKG", UTM, wkbPoint, FIELDS, NULL, 0);
+        scen_layer_t le = full_layer(fx_path(tmpdir, "none.gpkg"));
+        fx_write_layer(le.path, "GPKG", "sites", UTM, wkbPoint, FIELDS, NULL, 0);
         p = NULL;
         CHECK(points_load(&le, "depots", g, &p, &e) == ERR_OK);
         CHECK(p != NULL && p->n == 0);
         points_free(p);
     }
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_reproject(void)
 {
     /* UTM 36S grid 165,000..169,000 E, 9,888,000..9,890,000 N, 100 m cells. */
-    grid_t *g = mk_grid(40, 20, 165000, 9890000, 100, UTM);
-    feat_t fs[] = {
+    grid_t *g = fx_grid(40, 20, 165000, 9890000, 100, UTM);
+    fx_feat_t fs[] = {
         {"POINT (30.0 -1.0)", {"a", NULL, NULL, NULL, NULL}},
         {"POINT (30.01 -1.005)", {"b", NULL, NULL, NULL, NULL}},
     };
@@ -192,9 +109,9 @@ static void test_reproject(void)
     points_t *p = NULL;
     err_t e = {0};
 
-    l.path = (char *)tpath("ll.geojson");
+    l.path = (char *)fx_path(tmpdir, "ll.geojson");
     l.id_field = "code";
-    write_layer(l.path, "GeoJSON", 4326, wkbPoint, FIELDS, fs, 2);
+    fx_write_layer(l.path, "GeoJSON", "sites", 4326, wkbPoint, FIELDS, fs, 2);
     CHECK(points_load(&l, "candidate sites", g, &p, &e) == ERR_OK);
     CHECK(p != NULL && p->n == 2);
     if (p != NULL && p->n == 2) {
@@ -209,13 +126,13 @@ static void test_reproject(void)
         CHECK(p->cell[1] == 501);
     }
     points_free(p);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_outside_and_barrier(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
-    feat_t fs[13];
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
+    fx_feat_t fs[13];
     char wkt[13][64], id[13][16];
     scen_layer_t l = full_layer(NULL);
     points_t *p = NULL;
@@ -230,8 +147,8 @@ static void test_outside_and_barrier(void)
         memset(fs[i].v, 0, sizeof fs[i].v);
         fs[i].v[0] = id[i];
     }
-    l.path = (char *)tpath("out.geojson");
-    write_layer(l.path, "GeoJSON", UTM, wkbPoint, FIELDS, fs, 13);
+    l.path = (char *)fx_path(tmpdir, "out.geojson");
+    fx_write_layer(l.path, "GeoJSON", "sites", UTM, wkbPoint, FIELDS, fs, 13);
     CHECK(points_load(&l, "candidate sites", g, &p, &e) == ERR_INPUT && p == NULL);
     CHECK(e.code == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "candidate sites: 12 points in '");
@@ -239,8 +156,8 @@ static void test_outside_and_barrier(void)
                          "p9, p10 and 2 more");
 
     /* One outside point: singular wording, no "more". */
-    l.path = (char *)tpath("out1.geojson");
-    write_layer(l.path, "GeoJSON", UTM, wkbPoint, FIELDS, fs, 2);
+    l.path = (char *)fx_path(tmpdir, "out1.geojson");
+    fx_write_layer(l.path, "GeoJSON", "sites", UTM, wkbPoint, FIELDS, fs, 2);
     CHECK(points_load(&l, "depots", g, &p, &e) == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "depots: 1 point in");
     CHECK_STR_HAS(e.msg, "lies outside the population grid: p1");
@@ -248,25 +165,25 @@ static void test_outside_and_barrier(void)
     /* Barrier: point p0 at (500, 500) is in col 50, row 50. */
     g->barrier = calloc(100 * 100, 1);
     g->barrier[50 * 100 + 50] = 1;
-    l.path = (char *)tpath("bar.geojson");
-    write_layer(l.path, "GeoJSON", UTM, wkbPoint, FIELDS, fs, 1);
+    l.path = (char *)fx_path(tmpdir, "bar.geojson");
+    fx_write_layer(l.path, "GeoJSON", "sites", UTM, wkbPoint, FIELDS, fs, 1);
     CHECK(points_load(&l, "existing sites", g, &p, &e) == ERR_INPUT && p == NULL);
     CHECK_STR_HAS(e.msg, "existing sites: 1 point in");
     CHECK_STR_HAS(e.msg, "lies on barrier cells (impassable): p0; move it onto passable ground");
     g->barrier[50 * 100 + 50] = 0;
     CHECK(points_load(&l, "existing sites", g, &p, &e) == ERR_OK && p != NULL && p->n == 1);
     points_free(p);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_bad_values(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
     scen_layer_t l = full_layer(NULL);
     points_t *p = NULL;
     err_t e = {0};
     struct {
-        feat_t f;
+        fx_feat_t f;
         const char *msg;
     } cases[] = {
         {{"POINT (5 5)", {"s-9", "x", "-5", "1", "1"}},
@@ -303,9 +220,9 @@ static void test_bad_values(void)
          "is a Line String; existing sites must be points"},
     };
 
-    l.path = (char *)tpath("bad.gpkg");
+    l.path = (char *)fx_path(tmpdir, "bad.gpkg");
     for (size_t k = 0; k < sizeof cases / sizeof cases[0]; k++) {
-        write_layer(l.path, "GPKG", UTM, wkbUnknown, FIELDS, &cases[k].f, 1);
+        fx_write_layer(l.path, "GPKG", "sites", UTM, wkbUnknown, FIELDS, &cases[k].f, 1);
         e.code = 0;
         e.msg[0] = '\0';
         p = NULL;
@@ -316,21 +233,21 @@ static void test_bad_values(void)
 
     /* Duplicate ids. */
     {
-        feat_t fs[] = {
+        fx_feat_t fs[] = {
             {"POINT (5 5)", {"a", NULL, "1", "1", "1"}},
             {"POINT (15 5)", {"b", NULL, "1", "1", "1"}},
             {"POINT (25 5)", {"a", NULL, "1", "1", "1"}},
         };
-        write_layer(l.path, "GPKG", UTM, wkbPoint, FIELDS, fs, 3);
+        fx_write_layer(l.path, "GPKG", "sites", UTM, wkbPoint, FIELDS, fs, 3);
         CHECK(points_load(&l, "depots", g, &p, &e) == ERR_INPUT && p == NULL);
         CHECK_STR_HAS(e.msg, "depots: id 'a' appears more than once in '");
     }
     /* A named field that the layer lacks. */
     {
-        feat_t fs[] = {{"POINT (5 5)", {"a", NULL, "1", "1", "1"}}};
+        fx_feat_t fs[] = {{"POINT (5 5)", {"a", NULL, "1", "1", "1"}}};
         scen_layer_t lb = l;
         lb.capacity_field = "beds";
-        write_layer(l.path, "GPKG", UTM, wkbPoint, FIELDS, fs, 1);
+        fx_write_layer(l.path, "GPKG", "sites", UTM, wkbPoint, FIELDS, fs, 1);
         CHECK(points_load(&lb, "existing sites", g, &p, &e) == ERR_INPUT && p == NULL);
         CHECK_STR_HAS(e.msg, "bad.gpkg' layer 'sites' has no field 'beds'; fields present: "
                              "code, label, cap, cost, stor");
@@ -341,13 +258,13 @@ static void test_bad_values(void)
     }
     /* A polygon layer, a missing file. */
     {
-        feat_t fs[] = {{"POLYGON ((0 0,10 0,10 10,0 0))", {"a", NULL, "1", "1", "1"}}};
-        write_layer(tpath("poly.gpkg"), "GPKG", UTM, wkbPolygon, FIELDS, fs, 1);
-        l.path = (char *)tpath("poly.gpkg");
+        fx_feat_t fs[] = {{"POLYGON ((0 0,10 0,10 10,0 0))", {"a", NULL, "1", "1", "1"}}};
+        fx_write_layer(fx_path(tmpdir, "poly.gpkg"), "GPKG", "sites", UTM, wkbPolygon, FIELDS, fs, 1);
+        l.path = (char *)fx_path(tmpdir, "poly.gpkg");
         CHECK(points_load(&l, "candidate sites", g, &p, &e) == ERR_INPUT);
         CHECK_STR_HAS(e.msg, "layer 'sites' has Polygon geometries; candidate sites must be "
                              "points");
-        l.path = (char *)tpath("gone.gpkg");
+        l.path = (char *)fx_path(tmpdir, "gone.gpkg");
         CHECK(points_load(&l, "candidate sites", g, &p, &e) == ERR_IO && p == NULL);
         CHECK_STR_HAS(e.msg, "cannot open candidate sites file '");
         CHECK_STR_HAS(e.msg, "gone.gpkg': no such file");
@@ -355,7 +272,7 @@ static void test_bad_values(void)
         CHECK(points_load(&l, "depots", g, &p, &e) == ERR_INPUT);
         CHECK_STR_HAS(e.msg, "no depots file given");
     }
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_osm_points(void)
@@ -378,7 +295,7 @@ static void test_osm_points(void)
     l.name_field = "name";
     /* lon 9.39..9.64, lat 46.78..47.44 covers every point (ogrinfo: x 9.3999..9.6271,
      * y 46.7863..47.4349). */
-    g = mk_grid(250, 660, 9.39, 47.44, 0.001, 4326);
+    g = fx_grid(250, 660, 9.39, 47.44, 0.001, 4326);
     CHECK(points_load(&l, "existing sites", g, &p, &e) == ERR_OK);
     if (p != NULL) {
         /* ogrinfo -dialect SQLite -sql "SELECT count(*) FROM points": 1359. */
@@ -392,16 +309,16 @@ static void test_osm_points(void)
         }
     }
     points_free(p);
-    free_grid(g);
+    fx_grid_free(g);
 
     /* The roads grid (lon 9.46..9.66, lat 47.02..47.28) leaves 156 points out
      * (ogrinfo SQL count of points outside those bounds). */
-    g = mk_grid(200, 260, 9.46, 47.28, 0.001, 4326);
+    g = fx_grid(200, 260, 9.46, 47.28, 0.001, 4326);
     p = NULL;
     CHECK(points_load(&l, "existing sites", g, &p, &e) == ERR_INPUT && p == NULL);
     CHECK_STR_HAS(e.msg, "existing sites: 156 points in '");
     CHECK_STR_HAS(e.msg, " and 146 more");
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 int main(void)

@@ -18,42 +18,13 @@
 #include <ogr_srs_api.h>
 
 #include "check.h"
+#include "fixtures.h"
 #include "roads.h"
 
 
 static char tmpdir[64];
 
-/* A grid in memory: nx x ny cells of size cs (CRS units), top-left (x0, y0). */
-static grid_t *mk_grid(int nx, int ny, double x0, double y0, double cs, int epsg)
-{
-    grid_t *g = calloc(1, sizeof *g);
-    OGRSpatialReferenceH srs = OSRNewSpatialReference(NULL);
-    char *wkt = NULL;
 
-    OSRImportFromEPSG(srs, epsg);
-    OSRExportToWkt(srs, &wkt);
-    g->wkt = strdup(wkt);
-    CPLFree(wkt);
-    g->geographic = OSRIsGeographic(srs);
-    OSRDestroySpatialReference(srs);
-    g->nx = nx;
-    g->ny = ny;
-    g->gt[0] = x0;
-    g->gt[1] = cs;
-    g->gt[3] = y0;
-    g->gt[5] = -cs;
-    g->people = calloc((size_t)nx * (size_t)ny, sizeof *g->people);
-    return g;
-}
-
-static void free_grid(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->wkt);
-    free(g->people);
-    free(g->barrier);
-    free(g);
-}
 
 /* Sorted by name, as scen_load leaves it (scen_road_speed searches it by halves). */
 static scen_road_class_t speed_table[] = {
@@ -85,65 +56,8 @@ static void free_scen(scen_t *s)
     free(s);
 }
 
-/* A feature to write: WKT geometry and up to 4 string attribute values (NULL = unset). */
-typedef struct feat {
-    const char *wkt;
-    const char *v[4];
-} feat_t;
 
-/* Write a one-layer vector file with OGR. fields: up to 4 names, NULL-ended. */
-static void write_layer(const char *path, const char *driver, int epsg,
-                        OGRwkbGeometryType type, const char *const *fields, const feat_t *fs,
-                        size_t n)
-{
-    GDALDriverH drv = GDALGetDriverByName(driver);
-    GDALDatasetH ds;
-    OGRSpatialReferenceH srs = NULL;
-    OGRLayerH l;
-    int nf = 0;
 
-    unlink(path);
-    ds = GDALCreate(drv, path, 0, 0, 0, GDT_Unknown, NULL);
-    if (ds == NULL) {
-        fprintf(stderr, "cannot create %s\n", path);
-        exit(2);
-    }
-    if (epsg > 0) {
-        srs = OSRNewSpatialReference(NULL);
-        OSRImportFromEPSG(srs, epsg);
-    }
-    l = GDALDatasetCreateLayer(ds, "roads", srs, type, NULL);
-    for (; fields && fields[nf] && nf < 4; nf++) {
-        OGRFieldDefnH fd = OGR_Fld_Create(fields[nf], OFTString);
-        OGR_L_CreateField(l, fd, 1);
-        OGR_Fld_Destroy(fd);
-    }
-    for (size_t i = 0; i < n; i++) {
-        OGRFeatureH f = OGR_F_Create(OGR_L_GetLayerDefn(l));
-        OGRGeometryH geom = NULL;
-        char *w = (char *)fs[i].wkt;
-        OGR_G_CreateFromWkt(&w, srs, &geom);
-        OGR_F_SetGeometryDirectly(f, geom);
-        for (int k = 0; k < nf; k++)
-            if (fs[i].v[k] != NULL) OGR_F_SetFieldString(f, k, fs[i].v[k]);
-        if (OGR_L_CreateFeature(l, f) != OGRERR_NONE) {
-            fprintf(stderr, "cannot write feature %zu to %s\n", i, path);
-            exit(2);
-        }
-        OGR_F_Destroy(f);
-    }
-    if (srs) OSRDestroySpatialReference(srs);
-    GDALClose(ds);
-}
-
-static const char *tpath(const char *name)
-{
-    static char buf[8][128];
-    static int k;
-    k = (k + 1) % 8;
-    snprintf(buf[k], sizeof buf[k], "%s/%s", tmpdir, name);
-    return buf[k];
-}
 
 /* Load roads from path with tolerance tol on grid g; returns NULL on error (e filled). */
 static roads_t *load(const char *path, double tol, const grid_t *g, warn_list_t *w, err_t *e)
@@ -177,8 +91,8 @@ static const char *const F_BASIC[] = {"highway", "bridge", "oneway", "code", NUL
 
 static void test_cross(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
-    feat_t fs[] = {
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
+    fx_feat_t fs[] = {
         {"LINESTRING (100 500,500 500,900 500)", {"residential", NULL, NULL, "r-1"}},
         {"LINESTRING (500 100,500 500,500 900)", {"primary", NULL, NULL, "r-2"}},
     };
@@ -187,9 +101,9 @@ static void test_cross(void)
     roads_t *r;
     size_t nc = 0, big = 0;
 
-    write_layer(tpath("cross.geojson"), "GeoJSON", UTM, wkbLineString, F_BASIC, fs, 2);
+    fx_write_layer(fx_path(tmpdir, "cross.geojson"), "GeoJSON", "roads", UTM, wkbLineString, F_BASIC, fs, 2);
     warn_init(&w);
-    r = load(tpath("cross.geojson"), 1.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "cross.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL);
     if (r != NULL) {
         /* Hand count: 4 ends + 1 shared middle vertex; 4 steps of 400 m. */
@@ -215,7 +129,7 @@ static void test_cross(void)
 
     /* The same file with an id field named. */
     {
-        scen_t *s = mk_scen(tpath("cross.geojson"), 1.0);
+        scen_t *s = mk_scen(fx_path(tmpdir, "cross.geojson"), 1.0);
         s->roads.id_field = "code";
         warn_init(&w);
         r = NULL;
@@ -239,18 +153,18 @@ static void test_cross(void)
         free_scen(s);
         warn_destroy(&w);
     }
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_bridge(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
     /* The bridge passes over the road's middle vertex exactly, with a vertex there. */
-    feat_t fs[] = {
+    fx_feat_t fs[] = {
         {"LINESTRING (100 500,500 500,900 500)", {"residential", NULL, NULL, NULL}},
         {"LINESTRING (500 100,500 500,500 900)", {"primary", "yes", NULL, NULL}},
     };
-    feat_t fs2[] = {
+    fx_feat_t fs2[] = {
         {"LINESTRING (100 500,500 500,900 500)", {"residential", NULL, NULL, NULL}},
         {"LINESTRING (500 500,500 700,500 900)", {"primary", "viaduct", NULL, NULL}},
     };
@@ -259,9 +173,9 @@ static void test_bridge(void)
     roads_t *r;
     size_t nc = 0, big = 0;
 
-    write_layer(tpath("bridge.geojson"), "GeoJSON", UTM, wkbLineString, F_BASIC, fs, 2);
+    fx_write_layer(fx_path(tmpdir, "bridge.geojson"), "GeoJSON", "roads", UTM, wkbLineString, F_BASIC, fs, 2);
     warn_init(&w);
-    r = load(tpath("bridge.geojson"), 1.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "bridge.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL);
     if (r != NULL) {
         CHECK(r->n_junctions == 0);
@@ -274,8 +188,8 @@ static void test_bridge(void)
     roads_free(r);
 
     /* A bridge whose end vertex is the road's middle vertex: one junction. */
-    write_layer(tpath("bridge2.geojson"), "GeoJSON", UTM, wkbLineString, F_BASIC, fs2, 2);
-    r = load(tpath("bridge2.geojson"), 1.0, g, &w, &e);
+    fx_write_layer(fx_path(tmpdir, "bridge2.geojson"), "GeoJSON", "roads", UTM, wkbLineString, F_BASIC, fs2, 2);
+    r = load(fx_path(tmpdir, "bridge2.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL);
     if (r != NULL) {
         CHECK(r->n_junctions == 1);
@@ -288,27 +202,27 @@ static void test_bridge(void)
     /* A tunnel (from other_tags) under the road's middle vertex: no junction either. */
     {
         static const char *const F_OSM[] = {"highway", "other_tags", NULL};
-        feat_t ft[] = {
+        fx_feat_t ft[] = {
             {"LINESTRING (100 500,500 500,900 500)", {"residential", NULL, NULL, NULL}},
             {"LINESTRING (500 100,500 500,500 900)", {"primary", "\"tunnel\"=>\"yes\"", NULL,
                                                       NULL}},
         };
-        write_layer(tpath("tunnel.geojson"), "GeoJSON", UTM, wkbLineString, F_OSM, ft, 2);
-        r = load(tpath("tunnel.geojson"), 1.0, g, &w, &e);
+        fx_write_layer(fx_path(tmpdir, "tunnel.geojson"), "GeoJSON", "roads", UTM, wkbLineString, F_OSM, ft, 2);
+        r = load(fx_path(tmpdir, "tunnel.geojson"), 1.0, g, &w, &e);
         CHECK(r != NULL && r->n_junctions == 0 && r->n_nodes == 6);
         if (r) CHECK(r->segs[2].flags == ROAD_TUNNEL);
         roads_free(r);
     }
     CHECK(w.n == 0);
     warn_destroy(&w);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_snap(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
     /* Two ends 0.5 m apart. */
-    feat_t fs[] = {
+    fx_feat_t fs[] = {
         {"LINESTRING (100 500,500 500)", {"residential", NULL, NULL, NULL}},
         {"LINESTRING (500.5 500,900 500)", {"residential", NULL, NULL, NULL}},
     };
@@ -316,9 +230,9 @@ static void test_snap(void)
     err_t e;
     roads_t *r;
 
-    write_layer(tpath("snap.gpkg"), "GPKG", UTM, wkbLineString, F_BASIC, fs, 2);
+    fx_write_layer(fx_path(tmpdir, "snap.gpkg"), "GPKG", "roads", UTM, wkbLineString, F_BASIC, fs, 2);
     warn_init(&w);
-    r = load(tpath("snap.gpkg"), 1.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "snap.gpkg"), 1.0, g, &w, &e);
     CHECK(r != NULL);
     if (r != NULL) {
         CHECK(r->n_nodes == 3);
@@ -330,7 +244,7 @@ static void test_snap(void)
         CHECK(strcmp(r->feature_ids[0], "1") == 0);
     }
     roads_free(r);
-    r = load(tpath("snap.gpkg"), 0.1, g, &w, &e);
+    r = load(fx_path(tmpdir, "snap.gpkg"), 0.1, g, &w, &e);
     CHECK(r != NULL);
     if (r != NULL) {
         CHECK(r->n_nodes == 4);
@@ -338,12 +252,12 @@ static void test_snap(void)
     }
     roads_free(r);
     /* Zero tolerance: identical points only. */
-    r = load(tpath("snap.gpkg"), 0.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "snap.gpkg"), 0.0, g, &w, &e);
     CHECK(r != NULL && r->n_nodes == 4);
     roads_free(r);
     CHECK(w.n == 0);
     warn_destroy(&w);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_snap_geographic(void)
@@ -353,8 +267,8 @@ static void test_snap_geographic(void)
      * computed here with the WGS84 prime-vertical radius: 1 deg of longitude
      * at 47 deg N is 76,055 m (textbook value from memory), so 0.5 m is
      * 6.574e-6 deg. */
-    grid_t *g = mk_grid(1000, 1000, 30.0, 47.5, 0.001, 4326);
-    feat_t fs[] = {
+    grid_t *g = fx_grid(1000, 1000, 30.0, 47.5, 0.001, 4326);
+    fx_feat_t fs[] = {
         {"LINESTRING (30.1 47.0,30.2 47.0)", {"residential", NULL, NULL, NULL}},
         {"LINESTRING (30.200006574 47.0,30.3 47.0)", {"residential", NULL, NULL, NULL}},
     };
@@ -362,25 +276,25 @@ static void test_snap_geographic(void)
     err_t e;
     roads_t *r;
 
-    write_layer(tpath("geo.geojson"), "GeoJSON", 4326, wkbLineString, F_BASIC, fs, 2);
+    fx_write_layer(fx_path(tmpdir, "geo.geojson"), "GeoJSON", "roads", 4326, wkbLineString, F_BASIC, fs, 2);
     warn_init(&w);
-    r = load(tpath("geo.geojson"), 1.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "geo.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL && r->n_nodes == 3 && r->n_junctions == 1);
     roads_free(r);
-    r = load(tpath("geo.geojson"), 0.3, g, &w, &e);
+    r = load(fx_path(tmpdir, "geo.geojson"), 0.3, g, &w, &e);
     CHECK(r != NULL && r->n_nodes == 4 && r->n_junctions == 0);
     roads_free(r);
-    r = load(tpath("geo.geojson"), 0.7, g, &w, &e);
+    r = load(fx_path(tmpdir, "geo.geojson"), 0.7, g, &w, &e);
     CHECK(r != NULL && r->n_nodes == 3);
     roads_free(r);
     warn_destroy(&w);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_oneway(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
-    feat_t fs[] = {
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
+    fx_feat_t fs[] = {
         {"LINESTRING (100 100,200 100)", {"residential", NULL, "yes", NULL}},
         {"LINESTRING (100 300,200 300)", {"residential", NULL, "-1", NULL}},
         {"LINESTRING (100 500,200 500)", {"residential", NULL, "no", NULL}},
@@ -388,7 +302,7 @@ static void test_oneway(void)
     };
     /* OSM style: no oneway or bridge column, tags in other_tags. */
     static const char *const F_OSM[] = {"highway", "other_tags", NULL};
-    feat_t fo[] = {
+    fx_feat_t fo[] = {
         {"LINESTRING (100 100,200 100,300 100)",
          {"primary", "\"bridge\"=>\"yes\",\"oneway\"=>\"-1\",\"surface\"=>\"asphalt\"", NULL,
           NULL}},
@@ -400,8 +314,8 @@ static void test_oneway(void)
     roads_t *r;
 
     warn_init(&w);
-    write_layer(tpath("oneway.geojson"), "GeoJSON", UTM, wkbLineString, F_BASIC, fs, 4);
-    r = load(tpath("oneway.geojson"), 1.0, g, &w, &e);
+    fx_write_layer(fx_path(tmpdir, "oneway.geojson"), "GeoJSON", "roads", UTM, wkbLineString, F_BASIC, fs, 4);
+    r = load(fx_path(tmpdir, "oneway.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL && r->n_segs == 4);
     if (r != NULL && r->n_segs == 4) {
         const road_seg_t *s0 = &r->segs[0], *s1 = &r->segs[1];
@@ -415,8 +329,8 @@ static void test_oneway(void)
     }
     roads_free(r);
 
-    write_layer(tpath("osmstyle.geojson"), "GeoJSON", UTM, wkbLineString, F_OSM, fo, 3);
-    r = load(tpath("osmstyle.geojson"), 1.0, g, &w, &e);
+    fx_write_layer(fx_path(tmpdir, "osmstyle.geojson"), "GeoJSON", "roads", UTM, wkbLineString, F_OSM, fo, 3);
+    r = load(fx_path(tmpdir, "osmstyle.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL && r->n_segs == 4);
     if (r != NULL && r->n_segs == 4) {
         /* Reversed: the first stored step runs from x=300 to x=200. */
@@ -430,12 +344,12 @@ static void test_oneway(void)
     /* Limited access, only when the scenario names the field. */
     {
         static const char *const F_ACC[] = {"highway", "ctrl", NULL};
-        feat_t fa[] = {
+        fx_feat_t fa[] = {
             {"LINESTRING (100 100,200 100)", {"primary", "yes", NULL, NULL}},
             {"LINESTRING (100 300,200 300)", {"primary", "no", NULL, NULL}},
         };
-        scen_t *s = mk_scen(tpath("access.geojson"), 1.0);
-        write_layer(tpath("access.geojson"), "GeoJSON", UTM, wkbLineString, F_ACC, fa, 2);
+        scen_t *s = mk_scen(fx_path(tmpdir, "access.geojson"), 1.0);
+        fx_write_layer(fx_path(tmpdir, "access.geojson"), "GeoJSON", "roads", UTM, wkbLineString, F_ACC, fa, 2);
         r = NULL;
         CHECK(roads_load(s, g, &r, &w, &e) == ERR_OK);
         if (r) CHECK(r->segs[0].flags == 0);
@@ -452,24 +366,24 @@ static void test_oneway(void)
     }
     CHECK(w.n == 0);
     warn_destroy(&w);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_reproject(void)
 {
     /* UTM 36S grid 165,000..169,000 E, 9,888,000..9,890,000 N (100 m cells);
      * the road is given in EPSG:4326. */
-    grid_t *g = mk_grid(40, 20, 165000, 9890000, 100, UTM);
-    feat_t fs[] = {
+    grid_t *g = fx_grid(40, 20, 165000, 9890000, 100, UTM);
+    fx_feat_t fs[] = {
         {"LINESTRING (30.0 -1.0,30.01 -1.005,30.02 -1.0)", {"primary", NULL, NULL, NULL}},
     };
     warn_list_t w;
     err_t e;
     roads_t *r;
 
-    write_layer(tpath("ll.geojson"), "GeoJSON", 4326, wkbLineString, F_BASIC, fs, 1);
+    fx_write_layer(fx_path(tmpdir, "ll.geojson"), "GeoJSON", "roads", 4326, wkbLineString, F_BASIC, fs, 1);
     warn_init(&w);
-    r = load(tpath("ll.geojson"), 1.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "ll.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL && r->n_nodes == 3 && r->n_segs == 2);
     if (r != NULL && r->n_nodes == 3) {
         /* Reference values from /usr/bin/python3 with pyproj 3 on this machine:
@@ -492,13 +406,13 @@ static void test_reproject(void)
     }
     roads_free(r);
     warn_destroy(&w);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_clip(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
-    feat_t fs[] = {
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
+    fx_feat_t fs[] = {
         {"LINESTRING (100 100,300 100)", {"residential", NULL, NULL, NULL}},
         {"LINESTRING (800 200,1200 200)", {"residential", NULL, NULL, NULL}},
         {"LINESTRING (1100 100,1300 100)", {"residential", NULL, NULL, NULL}},
@@ -508,9 +422,9 @@ static void test_clip(void)
     err_t e;
     roads_t *r;
 
-    write_layer(tpath("clip.geojson"), "GeoJSON", UTM, wkbLineString, F_BASIC, fs, 4);
+    fx_write_layer(fx_path(tmpdir, "clip.geojson"), "GeoJSON", "roads", UTM, wkbLineString, F_BASIC, fs, 4);
     warn_init(&w);
-    r = load(tpath("clip.geojson"), 1.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "clip.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL);
     if (r != NULL) {
         /* Hand count: 200 m inside, 200 of 400 m, nothing, 100 + 100 m. */
@@ -527,13 +441,13 @@ static void test_clip(void)
     }
     roads_free(r);
     warn_destroy(&w);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_classes_and_shapes(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
-    feat_t fs[] = {
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
+    fx_feat_t fs[] = {
         {"LINESTRING (100 100,200 100)", {"dirt_lane", NULL, NULL, NULL}},
         {"LINESTRING (100 300,200 300)", {"dirt_lane", NULL, NULL, NULL}},
         {"LINESTRING (100 500,200 500)", {NULL, NULL, NULL, NULL}},
@@ -545,9 +459,9 @@ static void test_classes_and_shapes(void)
     err_t e;
     roads_t *r;
 
-    write_layer(tpath("cls.geojson"), "GeoJSON", UTM, wkbUnknown, F_BASIC, fs, 5);
+    fx_write_layer(fx_path(tmpdir, "cls.geojson"), "GeoJSON", "roads", UTM, wkbUnknown, F_BASIC, fs, 5);
     warn_init(&w);
-    r = load(tpath("cls.geojson"), 1.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "cls.geojson"), 1.0, g, &w, &e);
     CHECK(r != NULL);
     if (r != NULL) {
         CHECK(r->n_classes == 4);
@@ -568,22 +482,22 @@ static void test_classes_and_shapes(void)
     }
     roads_free(r);
     warn_destroy(&w);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 static void test_empty_and_errors(void)
 {
-    grid_t *g = mk_grid(100, 100, 0, 1000, 10, UTM);
-    feat_t poly[] = {{"POLYGON ((0 0,10 0,10 10,0 0))", {NULL, NULL, NULL, NULL}}};
-    feat_t pts[] = {{"POINT (5 5)", {"primary", NULL, NULL, NULL}}};
-    feat_t outside[] = {{"LINESTRING (2000 2000,3000 3000)", {"primary", NULL, NULL, NULL}}};
+    grid_t *g = fx_grid(100, 100, 0, 1000, 10, UTM);
+    fx_feat_t poly[] = {{"POLYGON ((0 0,10 0,10 10,0 0))", {NULL, NULL, NULL, NULL}}};
+    fx_feat_t pts[] = {{"POINT (5 5)", {"primary", NULL, NULL, NULL}}};
+    fx_feat_t outside[] = {{"LINESTRING (2000 2000,3000 3000)", {"primary", NULL, NULL, NULL}}};
     warn_list_t w;
     err_t e;
     roads_t *r;
 
     warn_init(&w);
-    write_layer(tpath("empty.gpkg"), "GPKG", UTM, wkbLineString, F_BASIC, NULL, 0);
-    r = load(tpath("empty.gpkg"), 1.0, g, &w, &e);
+    fx_write_layer(fx_path(tmpdir, "empty.gpkg"), "GPKG", "roads", UTM, wkbLineString, F_BASIC, NULL, 0);
+    r = load(fx_path(tmpdir, "empty.gpkg"), 1.0, g, &w, &e);
     CHECK(r != NULL && r->n_nodes == 0 && r->n_segs == 0 && r->n_features == 0);
     CHECK(warn_has(&w, "road layer 'roads' is empty; travel is walking only"));
     if (r) {
@@ -595,8 +509,8 @@ static void test_empty_and_errors(void)
 
     /* Everything outside: clipped away, then empty. */
     warn_init(&w);
-    write_layer(tpath("outside.gpkg"), "GPKG", UTM, wkbLineString, F_BASIC, outside, 1);
-    r = load(tpath("outside.gpkg"), 1.0, g, &w, &e);
+    fx_write_layer(fx_path(tmpdir, "outside.gpkg"), "GPKG", "roads", UTM, wkbLineString, F_BASIC, outside, 1);
+    r = load(fx_path(tmpdir, "outside.gpkg"), 1.0, g, &w, &e);
     CHECK(r != NULL && r->n_segs == 0 && r->n_features_clipped == 1);
     CHECK(warn_has(&w, "1 road features cross or lie outside"));
     CHECK(warn_has(&w, "is empty; travel is walking only"));
@@ -604,31 +518,31 @@ static void test_empty_and_errors(void)
     warn_destroy(&w);
 
     warn_init(&w);
-    write_layer(tpath("poly.gpkg"), "GPKG", UTM, wkbPolygon, F_BASIC, poly, 1);
-    r = load(tpath("poly.gpkg"), 1.0, g, &w, &e);
+    fx_write_layer(fx_path(tmpdir, "poly.gpkg"), "GPKG", "roads", UTM, wkbPolygon, F_BASIC, poly, 1);
+    r = load(fx_path(tmpdir, "poly.gpkg"), 1.0, g, &w, &e);
     CHECK(r == NULL && e.code == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "poly.gpkg' layer 'roads' has Polygon geometries; roads must be lines");
 
-    write_layer(tpath("pts.geojson"), "GeoJSON", UTM, wkbPoint, F_BASIC, pts, 1);
-    r = load(tpath("pts.geojson"), 1.0, g, &w, &e);
+    fx_write_layer(fx_path(tmpdir, "pts.geojson"), "GeoJSON", "roads", UTM, wkbPoint, F_BASIC, pts, 1);
+    r = load(fx_path(tmpdir, "pts.geojson"), 1.0, g, &w, &e);
     CHECK(r == NULL && e.code == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "has Point geometries; roads must be lines");
 
-    r = load(tpath("nothere.gpkg"), 1.0, g, &w, &e);
+    r = load(fx_path(tmpdir, "nothere.gpkg"), 1.0, g, &w, &e);
     CHECK(r == NULL && e.code == ERR_IO);
     CHECK_STR_HAS(e.msg, "nothere.gpkg");
     CHECK_STR_HAS(e.msg, "no such file");
 
     {
-        FILE *fp = fopen(tpath("junk.geojson"), "w");
+        FILE *fp = fopen(fx_path(tmpdir, "junk.geojson"), "w");
         fputs("this is not json", fp);
         fclose(fp);
-        r = load(tpath("junk.geojson"), 1.0, g, &w, &e);
+        r = load(fx_path(tmpdir, "junk.geojson"), 1.0, g, &w, &e);
         CHECK(r == NULL && e.code == ERR_INPUT);
         CHECK_STR_HAS(e.msg, "junk.geojson' is not vector data GDAL can read");
     }
     {
-        scen_t *s = mk_scen(tpath("snap.gpkg"), 1.0);
+        scen_t *s = mk_scen(fx_path(tmpdir, "snap.gpkg"), 1.0);
         s->roads.layer = "streets";
         r = NULL;
         CHECK(roads_load(s, g, &r, &w, &e) == ERR_INPUT && r == NULL);
@@ -639,25 +553,25 @@ static void test_empty_and_errors(void)
     {
         char *wkt = g->wkt;
         g->wkt = NULL;
-        r = load(tpath("snap.gpkg"), 1.0, g, &w, &e);
+        r = load(fx_path(tmpdir, "snap.gpkg"), 1.0, g, &w, &e);
         CHECK(r == NULL && e.code == ERR_INPUT);
         CHECK_STR_HAS(e.msg, "the grid has no CRS");
         g->wkt = wkt;
     }
     /* A layer without a CRS is taken to be in the grid's CRS, with a warning. */
     {
-        feat_t fn[] = {{"LINESTRING (100 100,200 100)", {"primary", NULL, NULL, NULL}}};
+        fx_feat_t fn[] = {{"LINESTRING (100 100,200 100)", {"primary", NULL, NULL, NULL}}};
         warn_list_t w2;
         warn_init(&w2);
         /* GeoPackage's "Undefined geographic SRS" and a shapefile without .prj. */
-        write_layer(tpath("nocrs.gpkg"), "GPKG", 0, wkbLineString, F_BASIC, fn, 1);
-        r = load(tpath("nocrs.gpkg"), 1.0, g, &w2, &e);
+        fx_write_layer(fx_path(tmpdir, "nocrs.gpkg"), "GPKG", "roads", 0, wkbLineString, F_BASIC, fn, 1);
+        r = load(fx_path(tmpdir, "nocrs.gpkg"), 1.0, g, &w2, &e);
         CHECK(r != NULL && r->n_segs == 1);
         if (r) CHECK_NEAR(r->total_length_m, 100.0, 1e-9);
         CHECK(warn_has(&w2, "has no CRS; taken to be the population grid's"));
         roads_free(r);
-        write_layer(tpath("nocrs.shp"), "ESRI Shapefile", 0, wkbLineString, F_BASIC, fn, 1);
-        r = load(tpath("nocrs.shp"), 1.0, g, &w2, &e);
+        fx_write_layer(fx_path(tmpdir, "nocrs.shp"), "ESRI Shapefile", "roads", 0, wkbLineString, F_BASIC, fn, 1);
+        r = load(fx_path(tmpdir, "nocrs.shp"), 1.0, g, &w2, &e);
         CHECK(r != NULL && r->n_segs == 1);
         if (r) CHECK_NEAR(r->total_length_m, 100.0, 1e-9);
         CHECK(warn_has(&w2, "has no CRS; taken to be the population grid's"));
@@ -666,12 +580,12 @@ static void test_empty_and_errors(void)
     }
     /* Latitudes beyond 90 degrees cannot be reprojected: skipped and counted. */
     {
-        feat_t fb[] = {{"LINESTRING (30 95,30 96)", {"primary", NULL, NULL, NULL}},
+        fx_feat_t fb[] = {{"LINESTRING (30 95,30 96)", {"primary", NULL, NULL, NULL}},
                        {"LINESTRING (30 -1,30.001 -1)", {"primary", NULL, NULL, NULL}}};
         warn_list_t w2;
         warn_init(&w2);
-        write_layer(tpath("badlat.geojson"), "GeoJSON", 4326, wkbLineString, F_BASIC, fb, 2);
-        r = load(tpath("badlat.geojson"), 1.0, g, &w2, &e);
+        fx_write_layer(fx_path(tmpdir, "badlat.geojson"), "GeoJSON", "roads", 4326, wkbLineString, F_BASIC, fb, 2);
+        r = load(fx_path(tmpdir, "badlat.geojson"), 1.0, g, &w2, &e);
         CHECK(r != NULL && r->n_features_skipped == 1 && r->n_features_read == 2);
         CHECK(warn_has(&w2, "1 road features in '"));
         CHECK(warn_has(&w2, "could not be reprojected onto the population grid's CRS; skipped"));
@@ -684,7 +598,7 @@ static void test_empty_and_errors(void)
     CHECK(warn_has(&w, "no road layer given"));
     roads_free(r);
     warn_destroy(&w);
-    free_grid(g);
+    fx_grid_free(g);
 }
 
 /* Liechtenstein OSM extract on a 0.001-degree grid covering all its highways. Returns NULL
@@ -703,11 +617,11 @@ static roads_t *load_liechtenstein(warn_list_t *w, err_t *e)
     if (access(path, R_OK) != 0) return NULL;
     /* lon 9.46..9.66, lat 47.02..47.28: the highway lines reach lon 9.6468 and
      * lat 47.0269 (ogrinfo ST_MinX/ST_MaxY... over lines with highway set). */
-    g = mk_grid(200, 260, 9.46, 47.28, 0.001, 4326);
+    g = fx_grid(200, 260, 9.46, 47.28, 0.001, 4326);
     s = mk_scen(path, 1.0);
     roads_load(s, g, &r, w, e);
     free_scen(s);
-    free_grid(g);
+    fx_grid_free(g);
     return r;
 }
 

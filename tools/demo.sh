@@ -44,9 +44,14 @@ step() {
 
 step check "$bin" check "$scenario"
 step reach "$bin" reach "$scenario" -o "$out/reach"
+step report "$bin" report "$out/reach"
 step compare "$bin" compare "$scenario" -o "$out/compare"
 step links "$bin" links "$scenario" -o "$out/links"
-# Later stages add one line each, e.g.:
-# step plan "$bin" plan "$scenario" -o "$out"
+# The whole job (docs/plan.md): reach, site selection when merged, stock and shipments.
+step plan "$bin" plan "$scenario" -o "$out"
 
-echo "demo: all $n steps done; results (if any) in $out"
+if [ -f "$out/report.html" ]; then
+    echo "demo: all $n steps done; open the plan report: $out/report.html"
+else
+    echo "demo: all $n steps done; results in $out"
+fi

@@ -1392,12 +1392,37 @@ static int write_scenario(const demo_t *d, const char *path, err_t *e)
         "\"walk\": { \"speed_kmh\": 5.0, \"slope\": true },\n"
         "              \"landcover_factors\": { \"10\": 1.0, \"20\": 1.0, \"30\": 0.6, "
         "\"40\": 0.4, \"50\": 1.0, \"60\": 0 } },\n"
-        "  \"coverage\": { \"limit_min\": 60, \"bands_min\": [30, 60, 120] },\n"
+        "  \"coverage\": { \"limit_min\": 60, \"bands_min\": [30, 60, 120] }",
+        DISTRICT_NAME, (unsigned long long)d->seed);
+    /* Stock and shipments (docs/plan.md): food and shelter at their Sphere 2018
+     * defaults plus soap; soap stock is set short on purpose so that the demo
+     * shows an unmet-need table. Figures invented for the demo. */
+    fputs(",\n"
+        "  \"supply\": { \"days_of_cover\": 7, \"lead_time_days\": 2, \"buffer\": 0.1,\n"
+        "    \"commodities\": [ { \"name\": \"food\" }, { \"name\": \"shelter\" },\n"
+        "      { \"name\": \"soap\", \"unit\": \"kg\", \"rate\": \"per_person_day\", "
+        "\"quantity\": 0.0083,\n"
+        "        \"unit_kg\": 1, \"unit_m3\": 0.0012, \"pack_units\": 20, \"priority\": 1 } ],\n"
+        "    \"fleet\": [\n"
+        "      { \"name\": \"10 t lorry\", \"payload_kg\": 10000, \"volume_m3\": 40, "
+        "\"count\": 6,\n"
+        "        \"cost_per_hour\": 40, \"cost_per_km\": 1.2, \"loading_min\": 90, "
+        "\"hours_available\": 60 },\n"
+        "      { \"name\": \"4x4 pickup\", \"payload_kg\": 1000, \"volume_m3\": 4, "
+        "\"count\": 4,\n"
+        "        \"cost_per_hour\": 15, \"cost_per_km\": 0.4, \"loading_min\": 30, "
+        "\"hours_available\": 60 } ],\n"
+        "    \"depot_stock\": { \"D1\": { \"food\": 500000, \"shelter\": 300000, "
+        "\"soap\": 6000 },\n"
+        "                     \"D2\": { \"food\": 300000, \"shelter\": 150000, "
+        "\"soap\": 2000 } } }", f);
+    /* What-if variants (docs/whatif.md): the first bridge closed, and the rains. */
+    fprintf(f, ",\n"
         "  \"variants\": [\n"
         "    { \"name\": \"bridge down\", \"close_roads\": { \"ids\": [\"%s\"] } },\n"
         "    { \"name\": \"rainy season\",\n"
-        "      \"road_speed_factors\": { \"surface\": { \"unpaved\": 0.3 } } } ] }\n",
-        DISTRICT_NAME, (unsigned long long)d->seed, bridge1);
+        "      \"road_speed_factors\": { \"surface\": { \"unpaved\": 0.3 } } } ]", bridge1);
+    fputs(" }\n", f);
     if (fclose(f) != 0)
         return err_set(e, ERR_IO, "gen-demo: cannot finish '%s': %s", path, strerror(errno));
     return ERR_OK;

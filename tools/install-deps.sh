@@ -5,9 +5,10 @@
 #   --with-browser  also install Chromium (used by the report's browser test).
 set -eu
 
-# Build and run-time libraries (headers + pkg-config files).
+# Build and run-time libraries (headers + pkg-config files), and the font the
+# maps and charts are drawn with.
 BUILD="pkg-config make gcc libglpk-dev libgdal-dev libigraph-dev libcjson-dev \
-libproj-dev libcairo2-dev libssl-dev"
+libproj-dev libcairo2-dev libfontconfig-dev libssl-dev fonts-dejavu-core"
 # Tools used by the tests and cross-checks: GDAL command-line programs,
 # Debian's Python with scipy (HiGHS), networkx, pyproj and GDAL bindings.
 TEST="gdal-bin python3 python3-scipy python3-networkx python3-pyproj python3-gdal"

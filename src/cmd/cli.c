@@ -43,6 +43,9 @@ int cli_parse(const cli_command_t *c, int argc, char **argv, cli_options_t *o, i
                            a, c->name);
         }
     }
+    if (o->scenario == NULL && c->arg_name != NULL)
+        return err_set(e, ERR_USAGE, "no %s given; usage: sitereach %s %s", c->arg_name, c->name,
+                       c->arg_name);
     if (o->scenario == NULL)
         return err_set(e, ERR_USAGE, "no scenario file given; usage: sitereach %s SCENARIO.json%s",
                        c->name, c->needs_outdir ? " -o OUTDIR" : "");

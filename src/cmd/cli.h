@@ -19,6 +19,7 @@ typedef struct cli_command {
     const char *usage;      /* full help text for 'sitereach NAME --help' */
     int needs_outdir;       /* 1 when -o is required */
     int (*run)(const cli_options_t *o, err_t *e);
+    const char *arg_name;   /* the positional argument in messages; NULL = "SCENARIO.json" */
 } cli_command_t;
 
 /* Parse the common options of a command into 'o'. Returns ERR_OK, or ERR_USAGE
@@ -34,6 +35,14 @@ int cmd_check(const cli_options_t *o, err_t *e);
 extern const char cmd_check_usage[];
 int cmd_reach(const cli_options_t *o, err_t *e);
 extern const char cmd_reach_usage[];
+int cmd_report(const cli_options_t *o, err_t *e);
+extern const char cmd_report_usage[];
+int cmd_plan(const cli_options_t *o, err_t *e);
+extern const char cmd_plan_usage[];
+int cmd_supply(const cli_options_t *o, err_t *e);
+extern const char cmd_supply_usage[];
+/* The plan script; full = 0 leaves out site selection and the report (supply). */
+int cmd_plan_job(const cli_options_t *o, int full, err_t *e);
 int cmd_compare(const cli_options_t *o, err_t *e);
 extern const char cmd_compare_usage[];
 int cmd_links(const cli_options_t *o, err_t *e);

@@ -11,16 +11,23 @@
 
 #include "cli.h"
 #include "err.h"
+#include "render.h"
 
 static const cli_command_t commands[] = {
     {"check", "validate a scenario and its inputs, print a report", cmd_check_usage, 0,
-     cmd_check},
+     cmd_check, NULL},
     {"reach", "travel times to the nearest site, catchments, people by time band",
-     cmd_reach_usage, 1, cmd_reach},
+     cmd_reach_usage, 1, cmd_reach, NULL},
+    {"report", "the HTML plan report (maps, charts, tables) of an output folder",
+     cmd_report_usage, 0, cmd_report, "OUTDIR"},
+    {"supply", "stock per site and truck trips from the depots, for the existing sites",
+     cmd_supply_usage, 1, cmd_supply, NULL},
+    {"plan", "the whole job: check, reach, new sites, stock and shipments, report",
+     cmd_plan_usage, 1, cmd_plan, NULL},
     {"compare", "base and what-if variants side by side: who loses access",
-     cmd_compare_usage, 1, cmd_compare},
+     cmd_compare_usage, 1, cmd_compare, NULL},
     {"links", "rank road links by the harm of closing each one alone",
-     cmd_links_usage, 1, cmd_links},
+     cmd_links_usage, 1, cmd_links, NULL},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 
@@ -81,6 +88,8 @@ int main(int argc, char **argv)
     igraph_set_warning_handler(igraph_warning_handler_ignore);
 
     rc = c->run(&o, &e);
+    /* Font caches of the maps' text: released so leak checkers stay quiet. */
+    render_shutdown();
     if (rc != ERR_OK) return cli_fail(c->name, &e);
     return EXIT_OK;
 }

@@ -54,6 +54,7 @@ void solver_opts_default(solver_opts_t *o)
     o->rel_gap = 0;
     o->presolve = 1;
     o->cuts = 0;
+    o->lp_dual = 0;
 }
 
 int solver_mip_new(const char *name, int sense, solver_mip_t **out, err_t *e)
@@ -248,6 +249,7 @@ int solver_solve(solver_mip_t *m, const solver_opts_t *o, const double *start,
         glp_init_smcp(&sp);
         sp.msg_lev = GLP_MSG_OFF;
         sp.presolve = GLP_ON;
+        if (o->lp_dual) sp.meth = GLP_DUALP;
         if (o->time_limit_s > 0) sp.tm_lim = ip.tm_lim;
         ret = glp_simplex(m->P, &sp);
         if (ret == 0 && glp_get_status(m->P) != GLP_OPT) {

@@ -260,11 +260,12 @@ static table_t *sites_table(const points_t *s, const reach_result_t *res)
 {
     static const char *names[] = {"index", "id", "name", "people", "capacity", "load_ratio",
                                   "beyond_limit", "mean_min", "max_min", "area_km2",
-                                  "served_within_limit"};
+                                  "served_within_limit", "x", "y"};
     static const int types[] = {TABLE_INT, TABLE_TEXT, TABLE_TEXT, TABLE_REAL, TABLE_REAL,
                                 TABLE_REAL, TABLE_REAL, TABLE_REAL, TABLE_REAL, TABLE_REAL,
-                                TABLE_REAL};
-    table_t *t = table_new(11, names, types);
+                                TABLE_REAL, TABLE_REAL, TABLE_REAL};
+    /* x, y: the site's position in the grid CRS, so maps need not reopen the layer. */
+    table_t *t = table_new(13, names, types);
 
     if (t == NULL) return NULL;
     for (size_t i = 0; i < s->n; i++) {
@@ -286,6 +287,8 @@ static table_t *sites_table(const points_t *s, const reach_result_t *res)
         table_set_num(t, i, 8, l->people > 0 ? l->max_time_s / 60.0 : NAN);
         table_set_num(t, i, 9, l->area_m2 / 1e6);
         table_set_num(t, i, 10, res->served ? res->served[i] : NAN);
+        table_set_num(t, i, 11, s->x[i]);
+        table_set_num(t, i, 12, s->y[i]);
     }
     return t;
 }

@@ -1,6 +1,7 @@
 /* summary: shared parts of summary.json (see include/summary.h). */
 #include "summary.h"
 
+#include <stdlib.h>
 #include <time.h>
 
 #include "output.h"
@@ -20,7 +21,12 @@ static void add_file(cJSON *arr, const char *role, const char *path)
     if (path == NULL) return;
     f = cJSON_CreateObject();
     cJSON_AddStringToObject(f, "role", role);
-    cJSON_AddStringToObject(f, "path", path);
+    /* Absolute, so that the report and later tools find the inputs from any folder. */
+    {
+        char *abs = realpath(path, NULL);
+        cJSON_AddStringToObject(f, "path", abs != NULL ? abs : path);
+        free(abs);
+    }
     if (out_sha256_file(path, hex, &size, &e) == ERR_OK) {
         cJSON_AddNumberToObject(f, "bytes", (double)size);
         cJSON_AddStringToObject(f, "sha256", hex);

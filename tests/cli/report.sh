@@ -1,0 +1,155 @@
+#!/bin/sh
+# The report command on the demo district and on real Burundi data (GHS-POP ©
+# European Union; OSM © OpenStreetMap contributors): report.html parses as XML
+# (XHTML-compatible, every text escaped), carries the key figures of
+# summary.json, embeds the maps as PNG data URIs of the expected sizes, credits
+# the data, and refuses bad folders with one-line errors.
+NAME=report
+. "$(dirname "$0")/../cli_lib.sh"
+B=${SITEREACH_SHARED:?}/data/real/burundi
+
+# check_html DIR LABEL: well-formed, key figures present, images embedded and sized.
+check_html() {
+    $PY - "$1" <<'PYEOF' && ok || bad "$2: report.html checks failed"
+import json, sys, os, struct, base64, re
+import xml.etree.ElementTree as ET
+d = sys.argv[1]
+s = json.load(open(os.path.join(d, "summary.json")))
+text = open(os.path.join(d, "report.html"), encoding="utf-8").read()
+body = text.split("\n", 1)[1]          # past <!DOCTYPE html>
+root = ET.fromstring(body)             # raises on malformed XHTML
+ns = {"h": "http://www.w3.org/1999/xhtml"}
+alltext = " ".join(root.itertext())
+r = s["reach"]
+pct = "%.0f%%" % (100 * r["people_within_limit"] / r["people_total"])
+assert pct in alltext, pct
+beyond = "{:,.0f}".format(r["people_beyond_limit"])
+assert beyond in alltext, beyond
+assert "people beyond %g min" % r["limit_min"] in alltext
+assert s["caution"] in alltext
+assert s["name"] in alltext, s["name"]
+# key figures come before the first map
+assert alltext.index("Key figures") < alltext.index("Travel time to the nearest site")
+imgs = root.findall(".//h:img", ns)
+assert len(imgs) == 4, len(imgs)
+for im in imgs:
+    src = im.get("src")
+    assert src.startswith("data:image/png;base64,")
+    png = base64.b64decode(src.split(",", 1)[1])
+    assert png[:8] == b"\x89PNG\r\n\x1a\n"
+    w, h = struct.unpack(">II", png[16:24])
+    assert (w == 1000 and 500 < h < 1000) or (w == 900 and 100 < h < 6000), (w, h)
+    assert im.get("alt")
+# no temporary files left behind
+left = [f for f in os.listdir(d) + os.listdir(os.path.join(d, "maps")) if f.startswith(".")]
+assert not left, left
+# print styles and a phone viewport
+assert "@media print" in text and "width=device-width" in text
+PYEOF
+}
+
+if [ -f scenarios/demo/scenario.json ]; then
+    expect_ok "$BIN" reach scenarios/demo/scenario.json -o "$WORK/demo" --quiet
+    expect_ok "$BIN" report "$WORK/demo"
+    expect_out "report written: $WORK/demo/report.html"
+    check_html "$WORK/demo" demo
+    # Overloaded demo sites are named among the key figures.
+    n_over=$($PY -c "import csv; print(sum(1 for r in csv.DictReader(open('$WORK/demo/sites.csv')) if r['load_ratio'] and float(r['load_ratio']) > 1))")
+    n_all=$($PY -c "import csv; print(sum(1 for r in csv.DictReader(open('$WORK/demo/sites.csv'))))")
+    if grep -q "$n_over of $n_all" "$WORK/demo/report.html"; then ok; else bad "demo: '$n_over of $n_all' sites over capacity missing"; fi
+    # sites.csv has the site coordinates in the grid CRS (UTM metres).
+    check_num "demo site x column" "$($PY -c "import csv; print(min(float(r['x']) for r in csv.DictReader(open('$WORK/demo/sites.csv'))))")" 4e5 4e5
+    expect_ok "$BIN" report "$WORK/demo" --json
+    $PY - "$WORK/out" "$WORK/demo" <<'PYEOF' && ok || bad "report --json"
+import json, sys, os
+j = json.load(open(sys.argv[1]))
+assert j["report"] == os.path.join(sys.argv[2], "report.html")
+assert len(j["images"]) == 4 and all(os.path.isfile(p) for p in j["images"])
+assert j["notes"] == []
+PYEOF
+    expect_ok "$BIN" report "$WORK/demo" --quiet
+    if [ -s "$WORK/out" ]; then bad "report --quiet printed: $(cat "$WORK/out")"; else ok; fi
+
+    # A road layer that has gone missing is left off the maps and noted, not fatal;
+    # sites.csv from before the x, y columns is refused with advice.
+    cp -r "$WORK/demo" "$WORK/moved"
+    $PY - "$WORK/moved/summary.json" <<'PYEOF'
+import json, sys
+p = sys.argv[1]
+s = json.load(open(p))
+for i in s["inputs"]:
+    if i["role"] == "roads":
+        i["path"] = "/nonexistent/roads.gpkg"
+json.dump(s, open(p, "w"))
+PYEOF
+    expect_ok "$BIN" report "$WORK/moved"
+    expect_out "note: roads left off the maps"
+    expect_out "/nonexistent/roads.gpkg"
+    if grep -q "roads left off the maps" "$WORK/moved/report.html"; then ok; else bad "note missing from report.html"; fi
+    cut -d, -f1-11 "$WORK/demo/sites.csv" >"$WORK/moved/sites.csv"
+    expect_fail 1 "lacks the columns id, people, x, y" "$BIN" report "$WORK/moved"
+    if [ -f "$WORK/moved/report.html" ] && grep -q "roads left off" "$WORK/moved/report.html"; then ok
+    else bad "a failed report replaced the earlier report.html"; fi
+
+    # Text from the data is escaped: a scenario name with markup characters.
+    cp -r scenarios/demo "$WORK/esc"
+    $PY - "$WORK/esc/scenario.json" <<'PYEOF'
+import json, sys
+p = sys.argv[1]
+s = json.load(open(p))
+s["name"] = "Ward <A> & 'B' \"C\""
+json.dump(s, open(p, "w"))
+PYEOF
+    expect_ok "$BIN" reach "$WORK/esc/scenario.json" -o "$WORK/esc/out" --quiet
+    expect_ok "$BIN" report "$WORK/esc/out" --quiet
+    check_html "$WORK/esc/out" escaped
+else
+    bad "demo not generated (run make check, which generates it)"
+fi
+
+cat >"$WORK/burundi.json" <<JSON
+{ "name": "Burundi (real test data)",
+  "inputs": { "population": "$B/ghs_pop_burundi_250m_mollweide.tif",
+              "roads": { "path": "$B/central_burundi_roads_osm.geojson" } },
+  "sites": { "existing": { "path": "$B/burundi_health_facilities_osm2019.geojson",
+                           "id_field": "osm_node_id", "name_field": "name" } } }
+JSON
+expect_ok "$BIN" reach "$WORK/burundi.json" -o "$WORK/bdi" --quiet
+expect_ok "$BIN" report "$WORK/bdi" --quiet
+check_html "$WORK/bdi" burundi
+if grep -q "GHS-POP © European Union; © OpenStreetMap contributors" "$WORK/bdi/report.html"; then ok
+else bad "burundi: data credits missing"; fi
+
+# Refusals: one line, the right exit status, the folder named.
+expect_fail 1 "$WORK/none/summary.json" "$BIN" report "$WORK/none"
+expect_fail 2 "no OUTDIR given" "$BIN" report
+expect_fail 2 "unknown option '--bogus'" "$BIN" report "$WORK/demo" --bogus
+mkdir -p "$WORK/chk"
+echo '{"command": "check"}' >"$WORK/chk/summary.json"
+expect_fail 1 "no results to report" "$BIN" report "$WORK/chk"
+expect_ok "$BIN" report --help
+expect_out "usage: sitereach report OUTDIR"
+
+# make install puts the man page and the bash completion in place.
+# (-o: install the binary under test as it is, never rebuild it with other flags)
+bd=${SITEREACH_BUILD:-build}
+expect_ok make -s -o "$bd/sitereach" install BUILD="$bd" PREFIX="$WORK/prefix"
+for f in bin/sitereach share/man/man1/sitereach.1 share/bash-completion/completions/sitereach; do
+    if [ -f "$WORK/prefix/$f" ]; then ok; else bad "make install did not install $f"; fi
+done
+# The man page renders without warnings where a formatter is present.
+if command -v groff >/dev/null 2>&1; then
+    run groff -man -Tutf8 -ww -z docs/sitereach.1
+    if [ "$RC" -eq 0 ] && [ ! -s "$WORK/err" ]; then ok; else bad "groff: $(cat "$WORK/err")"; fi
+elif command -v mandoc >/dev/null 2>&1; then
+    expect_ok mandoc -T lint -W warning docs/sitereach.1
+fi
+# Completion: commands, per-command options, scenario files.
+touch "$WORK/a.json" "$WORK/b.txt"
+comp() {   # comp WORD... : the completions of the last word
+    bash -c '. tools/sitereach.bash; COMP_WORDS=("$@"); COMP_CWORD=$(($# - 1)); _sitereach; echo "${COMPREPLY[*]}"' x "$@"
+}
+case " $(comp sitereach re) " in *" reach report "*) ok ;; *) bad "completion of 're': $(comp sitereach re)" ;; esac
+case " $(comp sitereach reach x.json --th) " in *" --threads "*) ok ;; *) bad "completion of --th" ;; esac
+case " $(comp sitereach check "$WORK/") " in *"a.json"*) case " $(comp sitereach check "$WORK/") " in *"b.txt"*) bad "completion offers b.txt" ;; *) ok ;; esac ;; *) bad "completion lacks a.json" ;; esac
+finish
