@@ -85,4 +85,42 @@ int network_attach_sources(network_t *net, const int64_t *nodes, size_t n, err_t
 /* Disable every virtual edge (weight +infinity, which igraph's Dijkstra ignores). */
 void network_detach_sources(network_t *net);
 
+/* The shortest-path tree of one nearest-site search from site_nodes[0..n) (as
+ * travel_nearest runs it, in the network's search direction): inbound[v] (n_nodes
+ * entries) is the id of the edge through which node v is settled, -1 for a site
+ * itself and -2 when v cannot be reached. Zero-weight connectors make "any tight
+ * edge" ambiguous (a node and its cell can be each other's tight neighbour), hence
+ * igraph's own tree. Errors: a node out of range, NOMEM, igraph failure. */
+int network_search_tree(network_t *net, const int64_t *site_nodes, size_t n_sites,
+                        int64_t *inbound, err_t *e);
+
+/* ---- What-if edits (src/whatif): a variant changes edge weights in place and
+ * undoes them afterwards, so nothing is rebuilt. Edge ids 0..network_n_edges()-1
+ * are the built edges (walking, road, connector); virtual edges come after and
+ * are never edited. */
+int64_t network_n_edges(const network_t *net);
+/* Road segments of the roads_t the network was built from (0 without roads). */
+size_t network_n_segs(const network_t *net);
+/* The road edges of segment 'seg' are ids [*first, *first + *n), both directions of
+ * every piece; *n is 0 when the segment carries no edges in this mode (footpaths by
+ * vehicle). Returns 0 when seg is out of range. */
+int network_seg_edges(const network_t *net, size_t seg, int64_t *first, int64_t *n);
+/* Current weight of edge eid (seconds; +inf when closed). */
+double network_edge_weight(const network_t *net, int64_t eid);
+/* Set edge eid's weight (seconds, +inf closes it), remembering the old value for
+ * network_edit_reset. Errors: eid not a built edge, NOMEM. */
+int network_edit_edge(network_t *net, int64_t eid, double w, err_t *e);
+/* Every edge touching a cell with mask[cell] != 0 (walking edges and connectors):
+ * factor 0 closes them; a factor in (0, 1] divides their speed (multiplies the time by
+ * 1/factor once per edge, also when both ends are masked). *n_edges (may be NULL)
+ * counts the edges changed. Errors: factor < 0, NOMEM. */
+int network_edit_cells(network_t *net, const uint8_t *mask, double factor, size_t *n_edges,
+                       err_t *e);
+/* Undo every edit since the last reset (in reverse order); cannot fail. */
+void network_edit_reset(network_t *net);
+/* Edits recorded since the last reset (an edge edited twice counts twice). */
+size_t network_n_edits(const network_t *net);
+/* Edit i (0 = oldest): the edge and its weight before that edit. */
+void network_edit_get(const network_t *net, size_t i, int64_t *eid, double *old_w);
+
 #endif

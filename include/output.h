@@ -47,6 +47,12 @@ int out_write_tif_i32(const char *path, const grid_t *g, const int32_t *v, int32
 int out_write_points_gpkg(const char *path, const char *layer, const char *wkt,
                           const double *x, const double *y, const table_t *t, err_t *e);
 
+/* A GeoPackage layer of line strings in the CRS 'wkt': feature i has the vertices
+ * x[start[i] .. start[i+1]-1], y[...] and the attribute row i of 't'. */
+int out_write_lines_gpkg(const char *path, const char *layer, const char *wkt,
+                         const double *x, const double *y, const size_t *start,
+                         const table_t *t, err_t *e);
+
 /* A GeoPackage layer of polygons from a label raster on g (label[c] = row of 't',
  * -1 = no polygon): GDAL polygonizes the labels and each row becomes one
  * (multi)polygon feature carrying that row's attributes. Rows with no cells get

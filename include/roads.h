@@ -60,6 +60,11 @@ typedef struct roads {
     size_t n_features_skipped;/* features without usable geometry: empty, not a
                                  line (mixed layers), or not reprojectable */
     double total_length_m;
+    /* Attributes kept for what-if variants (scen_t.variants->road_fields): the
+     * field names, and per kept feature its value of each ("" when unset). */
+    char **attr_fields;  /* n_attr owned names */
+    size_t n_attr;
+    char **attr;         /* n_features * n_attr owned values, row = feature */
 } roads_t;
 
 /* Read the road layer named in s->roads, reprojected onto g's CRS and clipped to
@@ -73,6 +78,18 @@ typedef struct roads {
  * layer not lines, a named field missing, no transformation to the grid CRS
  * (ERR_INPUT). Caller frees with roads_free. */
 int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, err_t *e);
+/* Value of kept attribute 'field' on feature 'feature', or NULL when the field
+ * was not kept. The class field is not an attribute: use classes[segs[i].cls]. */
+const char *roads_attr(const roads_t *r, size_t feature, const char *field);
+
+/* Mark in hit[0..n_segs) (1 = intersects) every road segment (the straight line
+ * between its two nodes) that intersects a polygon of layer 'l' (any OGR polygon
+ * layer, reprojected onto g's CRS; a layer without a CRS is taken to be in it).
+ * *n_hit counts them and *n_polygons the polygons read. Uses GEOS through OGR.
+ * Errors: missing file (ERR_IO), layer not found or not polygons, no transformation
+ * to the grid's CRS (ERR_INPUT). */
+int roads_segments_in_polygons(const roads_t *r, const grid_t *g, const scen_layer_t *l,
+                               uint8_t *hit, size_t *n_hit, size_t *n_polygons, err_t *e);
 void roads_free(roads_t *r);  /* NULL-safe */
 
 /* Connected components of the road network (undirected, igraph). Sets *n_comp and,

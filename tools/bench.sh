@@ -30,3 +30,11 @@ echo "## site selection, people on every one of 50,176 cells (hard case), 2,000 
     --time-limit 120 || exit 1
 echo "## covering model alone (bench-models: straight-line times), 50,176 points, 2,000 sites, p = 100"
 "$build/tools/bench-models" 224 2000 100 900 300 || exit 1
+# What-if variants and critical links (tools/bench-whatif.c): 100 variants on a
+# 1M-cell grid (time per variant and its ratio to a full rebuild), and the ranking
+# of about 10,000 road links (time, links skipped by the tree rule).
+wbin="$build/tools/bench-whatif"
+if [ -x "$wbin" ]; then
+    echo "## what-if"
+    "$wbin" --cells 1000000 --variants 100 --link-cells 490000 --threads 2 || exit 1
+fi

@@ -46,6 +46,8 @@ step check "$bin" check "$scenario"
 step reach "$bin" reach "$scenario" -o "$out/reach"
 step report "$bin" report "$out/reach"
 step site "$bin" site "$scenario" -o "$out/site"
+step compare "$bin" compare "$scenario" -o "$out/compare"
+step links "$bin" links "$scenario" -o "$out/links"
 # The whole job (docs/plan.md): reach, site selection, stock and shipments, report.
 step plan "$bin" plan "$scenario" -o "$out"
 

@@ -1358,6 +1358,14 @@ done:
 
 static int write_scenario(const demo_t *d, const char *path, err_t *e)
 {
+    /* The "bridge down" variant closes the first bridge written (bridge 1, on the
+     * primary road through the town), by its road id as write_roads numbers it. */
+    char bridge1[16] = "R001";
+    for (int j = 0; j < d->n_edges; j++)
+        if (d->edges[j].bridge) {
+            snprintf(bridge1, sizeof bridge1, "R%03d", j + 1);
+            break;
+        }
     FILE *f = fopen(path, "w");
     if (f == NULL)
         return err_set(e, ERR_IO, "gen-demo: cannot write '%s': %s", path, strerror(errno));
@@ -1410,6 +1418,12 @@ static int write_scenario(const demo_t *d, const char *path, err_t *e)
         "\"soap\": 6000 },\n"
         "                     \"D2\": { \"food\": 400000, \"shelter\": 300000, "
         "\"soap\": 2000 } } }", f);
+    /* What-if variants (docs/whatif.md): the first bridge closed, and the rains. */
+    fprintf(f, ",\n"
+        "  \"variants\": [\n"
+        "    { \"name\": \"bridge down\", \"close_roads\": { \"ids\": [\"%s\"] } },\n"
+        "    { \"name\": \"rainy season\",\n"
+        "      \"road_speed_factors\": { \"surface\": { \"unpaved\": 0.3 } } } ]", bridge1);
     fputs(" }\n", f);
     if (fclose(f) != 0)
         return err_set(e, ERR_IO, "gen-demo: cannot finish '%s': %s", path, strerror(errno));

@@ -45,5 +45,9 @@ extern const char cmd_supply_usage[];
 int cmd_plan_job(const cli_options_t *o, int full, err_t *e);
 int cmd_site(const cli_options_t *o, err_t *e);
 extern const char cmd_site_usage[];
+int cmd_compare(const cli_options_t *o, err_t *e);
+extern const char cmd_compare_usage[];
+int cmd_links(const cli_options_t *o, err_t *e);
+extern const char cmd_links_usage[];
 
 #endif

@@ -26,6 +26,10 @@ static const cli_command_t commands[] = {
      cmd_plan_usage, 1, cmd_plan, NULL},
     {"site", "choose sites: covering, median or capacitated models, on a grid or tables",
      cmd_site_usage, 1, cmd_site, NULL},
+    {"compare", "base and what-if variants side by side: who loses access",
+     cmd_compare_usage, 1, cmd_compare, NULL},
+    {"links", "rank road links by the harm of closing each one alone",
+     cmd_links_usage, 1, cmd_links, NULL},
 };
 static const size_t n_commands = sizeof commands / sizeof commands[0];
 

@@ -337,6 +337,51 @@ done:
     return rc;
 }
 
+int out_write_lines_gpkg(const char *path, const char *layer, const char *wkt,
+                         const double *x, const double *y, const size_t *start,
+                         const table_t *t, err_t *e)
+{
+    GDALDatasetH ds = NULL;
+    OGRLayerH lay = NULL;
+    char *tmp = out_tmp_name(path);
+    int rc;
+
+    if (tmp == NULL) return err_set(e, ERR_NOMEM, "out of memory writing '%s'", path);
+    CPLErrorReset();
+    rc = gpkg_create(tmp, path, layer, wkt, wkbLineString, t, &ds, &lay, e);
+    if (rc != ERR_OK) goto done;
+    if (OGR_L_StartTransaction(lay) != OGRERR_NONE) {
+        rc = err_set(e, ERR_IO, "cannot start writing '%s'", path);
+        goto done;
+    }
+    for (size_t i = 0; i < table_rows(t); i++) {
+        OGRFeatureH f = OGR_F_Create(OGR_L_GetLayerDefn(lay));
+        OGRGeometryH ln = OGR_G_CreateGeometry(wkbLineString);
+        for (size_t k = start[i]; k < start[i + 1]; k++) OGR_G_AddPoint_2D(ln, x[k], y[k]);
+        OGR_F_SetGeometryDirectly(f, ln);
+        set_fields(f, t, i);
+        if (OGR_L_CreateFeature(lay, f) != OGRERR_NONE) {
+            OGR_F_Destroy(f);
+            rc = err_set(e, ERR_IO, "cannot write line %zu to '%s': %s", i, path,
+                         CPLGetLastErrorMsg());
+            goto done;
+        }
+        OGR_F_Destroy(f);
+    }
+    if (OGR_L_CommitTransaction(lay) != OGRERR_NONE) {
+        rc = err_set(e, ERR_IO, "cannot finish writing '%s': %s", path, CPLGetLastErrorMsg());
+        goto done;
+    }
+    GDALClose(ds);
+    ds = NULL;
+    rc = out_rename(tmp, path, e);
+done:
+    if (ds != NULL) GDALClose(ds);
+    if (rc != ERR_OK) unlink(tmp);
+    free(tmp);
+    return rc;
+}
+
 int out_write_label_polygons(const char *path, const char *layer, const grid_t *g,
                              const int32_t *label, const table_t *t, err_t *e)
 {

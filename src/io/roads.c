@@ -18,6 +18,7 @@
 #include <igraph.h>
 
 #include "ogr_util.h"
+#include "scen_variants.h"
 
 /* Attribute text longer than this is cut; class names and ids are short. */
 #define ATTR_MAX 256
@@ -46,6 +47,8 @@ typedef struct rd {
     size_t n_f, cap_f, cap_fc;
     char **cls;          /* class names met so far */
     size_t n_cls, cap_cls;
+    char **fattr;        /* n_f * n_attr kept attribute values */
+    size_t n_attr, cap_fattr;
 } rd_t;
 
 /* Grow *p (element size sz) so it holds at least need elements. */
@@ -97,6 +100,8 @@ static void rd_destroy(rd_t *r)
     free(r->fcls);
     for (size_t i = 0; i < r->n_cls; i++) free(r->cls[i]);
     free(r->cls);
+    for (size_t i = 0; i < r->n_f * r->n_attr; i++) free(r->fattr[i]);
+    free(r->fattr);
 }
 
 void roads_free(roads_t *r)
@@ -110,6 +115,11 @@ void roads_free(roads_t *r)
     free(r->feature_ids);
     for (size_t i = 0; i < r->n_classes; i++) free(r->classes[i].name);
     free(r->classes);
+    for (size_t i = 0; i < r->n_attr; i++) free(r->attr_fields[i]);
+    free(r->attr_fields);
+    if (r->attr != NULL)
+        for (size_t i = 0; i < r->n_features * r->n_attr; i++) free(r->attr[i]);
+    free(r->attr);
     free(r);
 }
 
@@ -321,7 +331,9 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
     size_t n_nonline = 0, n_badxy = 0;
     const char *path = s->roads.path, *lname;
     const char *cls_field = s->road_class_field ? s->road_class_field : "highway";
-    ogr_util_attr_t a_cls, a_bridge, a_tunnel, a_oneway, a_access, a_id;
+    ogr_util_attr_t a_cls, a_bridge, a_tunnel, a_oneway, a_access, a_id, *a_var = NULL;
+    const struct scen_variants *sv = s->variants;
+    size_t n_var = sv != NULL ? sv->n_road_fields : 0;
     int has_id_field = 0;
     double ext[4];
 
@@ -379,6 +391,14 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
                          path, lname, role[k], need[k], fl);
             goto done;
         }
+        for (size_t k = 0; k < n_var; k++) {
+            ogr_util_attr_t tmp;
+            if (ogr_util_attr_init(&tmp, l, sv->road_fields[k])) continue;
+            ogr_util_field_list(l, fl, sizeof fl);
+            rc = err_set(e, ERR_INPUT, "'%s' layer '%s' has no field '%s', which a variant "
+                         "tests; fields present: %s", path, lname, sv->road_fields[k], fl);
+            goto done;
+        }
         if (s->roads.id_field != NULL) {
             OGRFeatureDefnH fd = OGR_L_GetLayerDefn(l);
             if (OGR_FD_GetFieldIndex(fd, s->roads.id_field) < 0) {
@@ -394,6 +414,23 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
     ogr_util_attr_init(&a_tunnel, l, s->road_tunnel_field ? s->road_tunnel_field : "tunnel");
     ogr_util_attr_init(&a_oneway, l, s->road_oneway_field ? s->road_oneway_field : "oneway");
     ogr_util_attr_init(&a_access, l, s->road_access_field);
+    if (n_var > 0) {
+        a_var = calloc(n_var, sizeof *a_var);
+        o->attr_fields = calloc(n_var, sizeof *o->attr_fields);
+        if (a_var == NULL || o->attr_fields == NULL) {
+            rc = err_set(e, ERR_NOMEM, "out of memory reading roads");
+            goto done;
+        }
+        for (size_t k = 0; k < n_var; k++) {
+            ogr_util_attr_init(&a_var[k], l, sv->road_fields[k]);
+            if ((o->attr_fields[k] = strdup(sv->road_fields[k])) == NULL) {
+                rc = err_set(e, ERR_NOMEM, "out of memory reading roads");
+                goto done;
+            }
+            o->n_attr = k + 1;
+        }
+    }
+    r.n_attr = n_var;
     if (s->roads.id_field != NULL) {
         has_id_field = ogr_util_attr_init(&a_id, l, s->roads.id_field);
         a_id.tags = -1;
@@ -541,7 +578,27 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
                     goto done;
                 }
                 r.fcls[r.n_f] = cls;
-                r.n_f++;
+                if (n_var > 0) {
+                    if (grow((void **)&r.fattr, &r.cap_fattr, (r.n_f + 1) * n_var,
+                             sizeof *r.fattr)) {
+                        free(r.fid[r.n_f]);
+                        rc = err_set(e, ERR_NOMEM, "out of memory reading roads in '%s'", path);
+                        goto done;
+                    }
+                    for (size_t k = 0; k < n_var; k++) r.fattr[r.n_f * n_var + k] = NULL;
+                    r.n_f++;
+                    for (size_t k = 0; k < n_var; k++) {
+                        char av2[ATTR_MAX];
+                        ogr_util_attr_get(&a_var[k], f, av2, sizeof av2);
+                        if ((r.fattr[(r.n_f - 1) * n_var + k] = strdup(av2)) == NULL) {
+                            rc = err_set(e, ERR_NOMEM, "out of memory reading roads in '%s'",
+                                         path);
+                            goto done;
+                        }
+                    }
+                } else {
+                    r.n_f++;
+                }
             }
         }
         if (lin != NULL) OGR_G_DestroyGeometry(lin);
@@ -680,7 +737,8 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
     /* Compact features and classes to those with at least one segment. */
     o->feature_ids = malloc((r.n_f ? r.n_f : 1) * sizeof *o->feature_ids);
     o->classes = calloc(r.n_cls ? r.n_cls : 1, sizeof *o->classes);
-    if (o->feature_ids == NULL || o->classes == NULL) {
+    if (n_var > 0) o->attr = calloc(r.n_f * n_var + 1, sizeof *o->attr);
+    if (o->feature_ids == NULL || o->classes == NULL || (n_var > 0 && o->attr == NULL)) {
         rc = err_set(e, ERR_NOMEM, "out of memory building road segments for '%s'", path);
         goto done;
     }
@@ -688,6 +746,10 @@ int roads_load(const scen_t *s, const grid_t *g, roads_t **out, warn_list_t *w, 
         if (fmap[i] < 0) continue;
         int32_t c = r.fcls[i];
         fmap[i] = (int32_t)o->n_features;
+        for (size_t k = 0; k < n_var; k++) {
+            o->attr[o->n_features * n_var + k] = r.fattr[i * n_var + k];
+            r.fattr[i * n_var + k] = NULL;
+        }
         o->feature_ids[o->n_features++] = r.fid[i];
         r.fid[i] = NULL;
         if (cmap[c] < 0) {
@@ -747,7 +809,108 @@ done:
     free(cmap);
     free(sn.next);
     free(sn.head);
+    free(a_var);
     roads_free(o);
+    return rc;
+}
+
+const char *roads_attr(const roads_t *r, size_t feature, const char *field)
+{
+    if (r == NULL || feature >= r->n_features) return NULL;
+    for (size_t k = 0; k < r->n_attr; k++)
+        if (strcmp(r->attr_fields[k], field) == 0) return r->attr[feature * r->n_attr + k];
+    return NULL;
+}
+
+int roads_segments_in_polygons(const roads_t *r, const grid_t *g, const scen_layer_t *lay,
+                               uint8_t *hit, size_t *n_hit, size_t *n_polygons, err_t *e)
+{
+    GDALDatasetH ds = NULL;
+    OGRLayerH l = NULL;
+    OGRFeatureH f = NULL;
+    OGRGeometryH line = NULL;
+    OGRSpatialReferenceH dst = NULL;
+    OGRCoordinateTransformationH ct = NULL;
+    OGREnvelope env;
+    int rc = ERR_OK;
+
+    *n_hit = 0;
+    *n_polygons = 0;
+    memset(hit, 0, r->n_segs);
+    if ((rc = ogr_util_open(lay->path, "flood", &ds, e)) != ERR_OK) goto done;
+    if ((rc = ogr_util_layer(ds, lay->path, lay->layer, "multipolygons", &l, e)) != ERR_OK)
+        goto done;
+    {
+        OGRwkbGeometryType t = wkbFlatten(OGR_L_GetGeomType(l));
+        if (t != wkbUnknown && t != wkbPolygon && t != wkbMultiPolygon &&
+            t != wkbCurvePolygon && t != wkbMultiSurface) {
+            rc = err_set(e, ERR_INPUT, "'%s' layer '%s' has %s geometries; a flood extent must "
+                         "be polygons", lay->path, OGR_L_GetName(l), OGRGeometryTypeToName(t));
+            goto done;
+        }
+    }
+    dst = OSRNewSpatialReference(g->wkt);
+    if (dst == NULL) {
+        rc = err_set(e, ERR_INPUT, "the population grid's CRS cannot be read for '%s'",
+                     lay->path);
+        goto done;
+    }
+    OSRSetAxisMappingStrategy(dst, OAMS_TRADITIONAL_GIS_ORDER);
+    {
+        OGRSpatialReferenceH src = OGR_L_GetSpatialRef(l);
+        if (src != NULL && !OSRIsSame(src, dst)) {
+            OGRSpatialReferenceH s2 = OSRClone(src);
+            OSRSetAxisMappingStrategy(s2, OAMS_TRADITIONAL_GIS_ORDER);
+            ct = OCTNewCoordinateTransformation(s2, dst);
+            OSRDestroySpatialReference(s2);
+            if (ct == NULL) {
+                rc = err_set(e, ERR_INPUT, "no transformation from the CRS of '%s' onto the "
+                             "population grid's CRS", lay->path);
+                goto done;
+            }
+        }
+    }
+    line = OGR_G_CreateGeometry(wkbLineString);
+    OGR_G_AddPoint_2D(line, 0, 0);
+    OGR_G_AddPoint_2D(line, 0, 0);
+    OGR_L_ResetReading(l);
+    while ((f = OGR_L_GetNextFeature(l)) != NULL) {
+        OGRGeometryH geom = OGR_F_GetGeometryRef(f);
+        if (geom != NULL && !OGR_G_IsEmpty(geom)) {
+            OGRGeometryH gg = OGR_G_Clone(geom);
+            if (ct != NULL && OGR_G_Transform(gg, ct) != OGRERR_NONE) {
+                OGR_G_DestroyGeometry(gg);
+                rc = err_set(e, ERR_INPUT, "feature %lld of '%s' cannot be reprojected onto "
+                             "the population grid's CRS", (long long)OGR_F_GetFID(f),
+                             lay->path);
+                goto done;
+            }
+            OGR_G_GetEnvelope(gg, &env);
+            (*n_polygons)++;
+            for (size_t i = 0; i < r->n_segs; i++) {
+                const road_seg_t *sg = &r->segs[i];
+                double xa = r->x[sg->a], ya = r->y[sg->a], xb = r->x[sg->b], yb = r->y[sg->b];
+                if (hit[i] || fmax(xa, xb) < env.MinX || fmin(xa, xb) > env.MaxX ||
+                    fmax(ya, yb) < env.MinY || fmin(ya, yb) > env.MaxY)
+                    continue;
+                OGR_G_SetPoint_2D(line, 0, xa, ya);
+                OGR_G_SetPoint_2D(line, 1, xb, yb);
+                if (OGR_G_Intersects(gg, line)) {
+                    hit[i] = 1;
+                    (*n_hit)++;
+                }
+            }
+            OGR_G_DestroyGeometry(gg);
+        }
+        OGR_F_Destroy(f);
+        f = NULL;
+    }
+done:
+    if (f != NULL) OGR_F_Destroy(f);
+    if (line != NULL) OGR_G_DestroyGeometry(line);
+    if (ct != NULL) OCTDestroyCoordinateTransformation(ct);
+    if (dst != NULL) OSRDestroySpatialReference(dst);
+    if (ds != NULL) GDALClose(ds);
     return rc;
 }
 

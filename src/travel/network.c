@@ -33,6 +33,11 @@ struct network {
     virt_edge_t *virt;         /* sorted by node */
     size_t n_virt, cap_virt;
     network_stats_t st;
+    int64_t n_edges;           /* built edges (virtual ones excluded) */
+    int64_t *seg_e0;           /* n_segs + 1: road edges of segment i are [seg_e0[i], seg_e0[i+1]) */
+    size_t n_segs;
+    struct edit { int64_t eid; double old; } *edits;  /* undo log of what-if edits */
+    size_t n_edits, cap_edits;
 };
 
 /* The edge list under construction, with its weights in the same order. Both
@@ -317,6 +322,8 @@ static int add_roads(network_t *net, const grid_t *g, const roads_t *r, const sc
         double w = sg->length_m / (double)k / speed;
         int64_t prev = base + sg->a;
 
+        net->seg_e0[i] = (int64_t)b->n;
+
         for (int64_t j = 1; j <= k; j++) {
             int64_t cur;
             if (j == k) {
@@ -341,6 +348,7 @@ static int add_roads(network_t *net, const grid_t *g, const roads_t *r, const sc
             prev = cur;
         }
     }
+    net->seg_e0[r->n_segs] = (int64_t)b->n;
     for (size_t i = 0; i < r->n_nodes; i++) {
         int junction = r->node_junction != NULL && r->node_junction[i] != 0;
         /* Isolated nodes (no segment) keep a connector: harmless and visible. */
@@ -451,7 +459,9 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
         net->rx = malloc((nr ? nr : 1) * sizeof *net->rx);
         net->ry = malloc((nr ? nr : 1) * sizeof *net->ry);
         fac = malloc((size_t)net->n_cells * sizeof *fac);
-        if (net->rx == NULL || net->ry == NULL || fac == NULL) {
+        net->n_segs = r != NULL ? r->n_segs : 0;
+        net->seg_e0 = calloc(net->n_segs + 1, sizeof *net->seg_e0);
+        if (net->rx == NULL || net->ry == NULL || fac == NULL || net->seg_e0 == NULL) {
             rc = err_set(e, ERR_NOMEM, "out of memory for %ld cells", (long)net->n_cells);
             goto done;
         }
@@ -508,6 +518,7 @@ int network_build(const grid_t *g, const roads_t *r, const scen_t *s, network_t 
     }
     igraph_vector_int_destroy(&b.ends);
     b_ends = 0;
+    net->n_edges = (int64_t)b.n;
     net->weights = b.w;        /* ownership moves to the network */
     b_w = 0;
     net->weights_ok = 1;
@@ -534,6 +545,8 @@ void network_free(network_t *net)
     free(net->rx);
     free(net->ry);
     free(net->virt);
+    free(net->seg_e0);
+    free(net->edits);
     free(net);
 }
 
@@ -707,4 +720,131 @@ done:
 void network_detach_sources(network_t *net)
 {
     for (size_t i = 0; i < net->n_virt; i++) VECTOR(net->weights)[net->virt[i].eid] = INFINITY;
+}
+
+/* ---- what-if edits ---- */
+
+int64_t network_n_edges(const network_t *net) { return net->n_edges; }
+size_t network_n_segs(const network_t *net) { return net->n_segs; }
+size_t network_n_edits(const network_t *net) { return net->n_edits; }
+
+void network_edit_get(const network_t *net, size_t i, int64_t *eid, double *old_w)
+{
+    *eid = net->edits[i].eid;
+    *old_w = net->edits[i].old;
+}
+
+int network_seg_edges(const network_t *net, size_t seg, int64_t *first, int64_t *n)
+{
+    if (seg >= net->n_segs) return 0;
+    *first = net->seg_e0[seg];
+    *n = net->seg_e0[seg + 1] - net->seg_e0[seg];
+    return 1;
+}
+
+double network_edge_weight(const network_t *net, int64_t eid)
+{
+    return VECTOR(net->weights)[eid];
+}
+
+int network_edit_edge(network_t *net, int64_t eid, double w, err_t *e)
+{
+    if (eid < 0 || eid >= net->n_edges)
+        return err_set(e, ERR_INTERNAL, "edge %ld is not a built edge (0..%ld)", (long)eid,
+                       (long)net->n_edges - 1);
+    if (net->n_edits == net->cap_edits) {
+        size_t cap = net->cap_edits ? 2 * net->cap_edits : 1024;
+        struct edit *p = realloc(net->edits, cap * sizeof *p);
+        if (p == NULL) return err_set(e, ERR_NOMEM, "out of memory editing edge weights");
+        net->edits = p;
+        net->cap_edits = cap;
+    }
+    net->edits[net->n_edits].eid = eid;
+    net->edits[net->n_edits].old = VECTOR(net->weights)[eid];
+    net->n_edits++;
+    VECTOR(net->weights)[eid] = w;
+    return ERR_OK;
+}
+
+/* The incidence arrays of igraph_t are read directly, as travel.c does: the
+ * out-edges of v are oi[os[v] .. os[v+1]-1], its in-edges ii[is[v] .. is[v+1]-1]. */
+int network_edit_cells(network_t *net, const uint8_t *mask, double factor, size_t *n_edges,
+                       err_t *e)
+{
+    const igraph_t *g = &net->graph;
+    const igraph_integer_t *os = VECTOR(g->os), *oi = VECTOR(g->oi);
+    const igraph_integer_t *is = VECTOR(g->is), *ii = VECTOR(g->ii);
+    const igraph_integer_t *from = VECTOR(g->from);
+    size_t n = 0;
+    int rc;
+
+    if (n_edges != NULL) *n_edges = 0;
+    if (!(factor >= 0.0) || !(factor <= 1.0))
+        return err_set(e, ERR_INPUT, "flood cell speed factor %g is outside [0, 1]", factor);
+    for (int64_t c = 0; c < net->n_cells; c++) {
+        if (!mask[c]) continue;
+        for (int pass = 0; pass < 2; pass++) {
+            const igraph_integer_t *st = pass ? is : os, *ix = pass ? ii : oi;
+            for (igraph_integer_t k = st[c]; k < st[c + 1]; k++) {
+                igraph_integer_t eid = ix[k];
+                double w = VECTOR(net->weights)[eid];
+                if (eid >= net->n_edges || !isfinite(w)) continue;
+                /* An in-edge from another masked cell is that cell's out-edge: once only. */
+                if (pass && factor > 0.0 && from[eid] < net->n_cells && mask[from[eid]]) continue;
+                if ((rc = network_edit_edge(net, eid, factor > 0.0 ? w / factor : INFINITY, e))
+                    != ERR_OK)
+                    return rc;
+                n++;
+            }
+        }
+    }
+    if (n_edges != NULL) *n_edges = n;
+    return ERR_OK;
+}
+
+void network_edit_reset(network_t *net)
+{
+    while (net->n_edits > 0) {
+        net->n_edits--;
+        VECTOR(net->weights)[net->edits[net->n_edits].eid] = net->edits[net->n_edits].old;
+    }
+}
+
+int network_search_tree(network_t *net, const int64_t *site_nodes, size_t n_sites,
+                        int64_t *inbound, err_t *e)
+{
+    igraph_vector_int_t parents, inb;
+    int par_ok = 0, inb_ok = 0, rc;
+    int64_t virt = network_virtual_node(net), n = network_n_nodes(net);
+
+    if ((rc = network_attach_sources(net, site_nodes, n_sites, e)) != ERR_OK) return rc;
+    if (igraph_vector_int_init(&parents, 0) != IGRAPH_SUCCESS) goto nomem;
+    par_ok = 1;
+    if (igraph_vector_int_init(&inb, 0) != IGRAPH_SUCCESS) goto nomem;
+    inb_ok = 1;
+    {
+        igraph_error_t ie = igraph_get_shortest_paths_dijkstra(
+            &net->graph, NULL, NULL, virt, igraph_vss_all(), &net->weights,
+            network_search_mode(net), &parents, &inb);
+        if (ie != IGRAPH_SUCCESS) {
+            rc = err_set(e, ie == IGRAPH_ENOMEM ? ERR_NOMEM : ERR_GRAPH,
+                         "shortest-path tree from %zu sites failed in igraph: %s", n_sites,
+                         igraph_strerror(ie));
+            goto done;
+        }
+    }
+    for (int64_t v = 0; v < n; v++) {
+        igraph_integer_t p = VECTOR(parents)[v];
+        /* igraph also settles nodes through +inf edges (at infinite distance). */
+        if (p < 0 || !isfinite(VECTOR(net->weights)[VECTOR(inb)[v]])) inbound[v] = -2;
+        else inbound[v] = p == virt ? -1 : VECTOR(inb)[v];
+    }
+    goto done;
+nomem:
+    rc = err_set(e, ERR_NOMEM, "out of memory for the shortest-path tree of %ld nodes", (long)n);
+done:
+    network_detach_sources(net);
+    if (par_ok) igraph_vector_int_destroy(&parents);
+    if (inb_ok) igraph_vector_int_destroy(&inb);
+    return rc;
 }

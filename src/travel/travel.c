@@ -103,7 +103,9 @@ static int rebuild_from_tree(const network_t *net, const igraph_vector_int_t *pa
                 res->site[u] = site_of(keys, n_keys, u);
             } else {
                 res->time_s[u] = res->time_s[p] + VECTOR(*w)[VECTOR(*inbound)[u]];
-                res->site[u] = res->site[p];
+                /* igraph also "reaches" nodes through +inf edges (closed by a
+                 * what-if variant), at infinite distance: those have no site. */
+                res->site[u] = isfinite(res->time_s[u]) ? res->site[p] : -1;
             }
             if (top == 0) break;
             u = stack[--top];
