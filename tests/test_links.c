@@ -16,73 +16,19 @@
 #include <string.h>
 
 #include "check.h"
+#include "fixtures.h"
 #include "inputs.h"
 #include "links.h"
 #include "network.h"
 #include "output.h"
 #include "travel.h"
 
-static grid_t *mk_grid(int nx, int ny, double cell)
-{
-    grid_t *g = calloc(1, sizeof *g);
-    g->nx = nx;
-    g->ny = ny;
-    g->gt[0] = 0.0;
-    g->gt[1] = cell;
-    g->gt[3] = ny * cell;
-    g->gt[5] = -cell;
-    g->row_dx_m = malloc((size_t)ny * sizeof(double));
-    g->row_dy_m = malloc((size_t)ny * sizeof(double));
-    g->people = calloc((size_t)nx * ny, sizeof(double));
-    for (int r = 0; r < ny; r++) g->row_dx_m[r] = g->row_dy_m[r] = cell;
-    return g;
-}
-
-static void free_grid(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->row_dx_m);
-    free(g->row_dy_m);
-    free(g->barrier);
-    free(g->people);
-    free(g);
-}
-
-static void init_scen(scen_t *s)
-{
-    memset(s, 0, sizeof *s);
-    s->neighbours = 8;
-    s->walk_mps = 1.0;
-    s->cover_default_factor = 1.0;
-    s->mode = SCEN_MODE_WALK;
-    s->direction = SCEN_TO_SITE;
-}
-
 static roads_t *mk_roads(size_t n_nodes, size_t n_segs)
 {
-    roads_t *r = calloc(1, sizeof *r);
-    r->n_nodes = n_nodes;
-    r->n_segs = n_segs;
-    r->x = calloc(n_nodes, sizeof *r->x);
-    r->y = calloc(n_nodes, sizeof *r->y);
-    r->node_junction = calloc(n_nodes, 1);
-    r->segs = calloc(n_segs, sizeof *r->segs);
-    r->n_classes = 2;
-    r->classes = calloc(2, sizeof *r->classes);
+    roads_t *r = fx_roads(n_nodes, n_segs, 2);
     r->classes[0] = (road_class_count_t){"main", 0, 0.0, 2.0, 15.0, 1};
     r->classes[1] = (road_class_count_t){"path", 0, 0.0, 1.5, 0.0, 1};
     return r;
-}
-
-static void free_roads(roads_t *r)
-{
-    if (r == NULL) return;
-    free(r->x);
-    free(r->y);
-    free(r->node_junction);
-    free(r->segs);
-    free(r->classes);
-    free(r);
 }
 
 static void road_at(roads_t *r, const grid_t *g, size_t i, int col, int row)
@@ -124,7 +70,7 @@ static void free_site(points_t *p)
  * beyond the limit and 30 cut off. */
 static void test_single_bridge(void)
 {
-    grid_t *g = mk_grid(21, 3, 100.0);
+    grid_t *g = fx_lattice(21, 3, 100.0);
     roads_t *r = mk_roads(2, 1);
     points_t *site = one_site(g, 0, 1);
     network_t *net = NULL;
@@ -133,7 +79,7 @@ static void test_single_bridge(void)
     err_t e = {0};
     link_t full;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     g->barrier = calloc(21 * 3, 1);
     for (int row = 0; row < 3; row++) {
         g->barrier[row * 21 + 10] = 1;
@@ -173,8 +119,8 @@ done:
     links_free(L);
     network_free(net);
     free_site(site);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
 }
 
 /* Two mirrored roads from W (cell 1,3) to E (cell 19,3), one along row 1 and one
@@ -185,7 +131,7 @@ done:
  * in the same time: closing one changes nothing (on paper: 0 pushed, 0 hours). */
 static void test_parallel(void)
 {
-    grid_t *g = mk_grid(21, 7, 100.0);
+    grid_t *g = fx_lattice(21, 7, 100.0);
     roads_t *r = mk_roads(6, 6);
     points_t *site = one_site(g, 1, 3);
     network_t *net = NULL;
@@ -193,7 +139,7 @@ static void test_parallel(void)
     scen_t s;
     err_t e = {0};
 
-    init_scen(&s);
+    fx_scen_init(&s);
     s.walk_mps = 0.5;
     for (int col = 17; col < 21; col++) g->people[3 * 21 + col] = 25;
     road_at(r, g, 0, 1, 3);    /* W */
@@ -224,8 +170,8 @@ done:
     links_free(L);
     network_free(net);
     free_site(site);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
 }
 
 /* A mixed network: a loop, a dead end, a chain of several segments, a one-way
@@ -234,7 +180,7 @@ done:
  * closed, in both directions and both modes, with 1 and 3 threads. */
 static void test_against_full(int mode, int direction, int threads)
 {
-    grid_t *g = mk_grid(30, 12, 100.0);
+    grid_t *g = fx_lattice(30, 12, 100.0);
     roads_t *r = mk_roads(12, 13);
     points_t site = {0};
     int64_t cells[2];
@@ -244,7 +190,7 @@ static void test_against_full(int mode, int direction, int threads)
     err_t e = {0};
     int bad = 0;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     s.mode = mode;
     s.direction = direction;
     s.walk_mps = 1.2;
@@ -321,8 +267,8 @@ static void test_against_full(int mode, int direction, int threads)
 done:
     links_free(L);
     network_free(net);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
 }
 
 /* ---- export mode for tests/xcheck/links_networkx.sh ---- */

@@ -8,74 +8,17 @@
 #include <string.h>
 
 #include "check.h"
+#include "fixtures.h"
 #include "network.h"
 #include "tobler.h"
-
-/* A planar grid of nx x ny square cells of 'cell' metres; origin top-left at
- * (0, ny*cell), so cell (col,row) has its centre at ((col+.5)cell, (ny-row-.5)cell). */
-static grid_t *mk_grid(int nx, int ny, double cell)
-{
-    grid_t *g = calloc(1, sizeof *g);
-    g->nx = nx;
-    g->ny = ny;
-    g->gt[0] = 0.0;
-    g->gt[1] = cell;
-    g->gt[3] = ny * cell;
-    g->gt[5] = -cell;
-    g->row_dx_m = malloc((size_t)(ny > 0 ? ny : 1) * sizeof(double));
-    g->row_dy_m = malloc((size_t)(ny > 0 ? ny : 1) * sizeof(double));
-    for (int r = 0; r < ny; r++) g->row_dx_m[r] = g->row_dy_m[r] = cell;
-    return g;
-}
-
-static void free_grid(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->row_dx_m);
-    free(g->row_dy_m);
-    free(g->elevation);
-    free(g->landcover);
-    free(g->barrier);
-    free(g);
-}
-
-static void init_scen(scen_t *s)
-{
-    memset(s, 0, sizeof *s);
-    s->neighbours = 8;
-    s->walk_mps = 1.0;
-    s->use_slope = 1;
-    s->cover_default_factor = 1.0;
-    s->mode = SCEN_MODE_WALK;
-    s->direction = SCEN_TO_SITE;
-}
 
 /* Roads with one class (walk and vehicle speeds given) and room for the nodes/segs. */
 static roads_t *mk_roads(size_t n_nodes, size_t n_segs, double walk, double veh)
 {
-    roads_t *r = calloc(1, sizeof *r);
-    r->n_nodes = n_nodes;
-    r->n_segs = n_segs;
-    r->x = calloc(n_nodes, sizeof *r->x);
-    r->y = calloc(n_nodes, sizeof *r->y);
-    r->node_junction = calloc(n_nodes, 1);
-    r->segs = calloc(n_segs, sizeof *r->segs);
-    r->n_classes = 1;
-    r->classes = calloc(1, sizeof *r->classes);
+    roads_t *r = fx_roads(n_nodes, n_segs, 1);
     r->classes[0].walk_mps = walk;
     r->classes[0].vehicle_mps = veh;
     return r;
-}
-
-static void free_roads(roads_t *r)
-{
-    if (r == NULL) return;
-    free(r->x);
-    free(r->y);
-    free(r->node_junction);
-    free(r->segs);
-    free(r->classes);
-    free(r);
 }
 
 /* Weight of edge from->to, or -1 when there is none. */
@@ -102,12 +45,12 @@ static void test_tobler(void)
 
 static void test_slope_edges(void)
 {
-    grid_t *g = mk_grid(2, 1, 100.0);
+    grid_t *g = fx_lattice(2, 1, 100.0);
     scen_t s;
     network_t *net = NULL;
     err_t e = {0, ""};
 
-    init_scen(&s);
+    fx_scen_init(&s);
     g->elevation = malloc(2 * sizeof(float));
     g->elevation[0] = 0.0f;
     g->elevation[1] = 10.0f;   /* S = +0.1 uphill from cell 0 to cell 1 */
@@ -130,12 +73,12 @@ static void test_slope_edges(void)
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     CHECK_REL(weight_of(net, 0, 1), 100.0, 1e-12);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 }
 
 static void test_counts_and_mapping(void)
 {
-    grid_t *g = mk_grid(3, 3, 10.0);
+    grid_t *g = fx_lattice(3, 3, 10.0);
     scen_t s;
     network_t *net = NULL;
     network_stats_t st;
@@ -143,7 +86,7 @@ static void test_counts_and_mapping(void)
     double x, y;
     int col, row;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     network_get_stats(net, &st);
     /* 3x3, 8 neighbours: 6 horizontal + 6 vertical + 8 diagonal pairs = 20, x2 directed. */
@@ -194,18 +137,18 @@ static void test_counts_and_mapping(void)
     CHECK(weight_of(net, 4, 0) < 0.0);
     CHECK(weight_of(net, 4, 8) > 0.0);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 }
 
 static void test_landcover_and_rows(void)
 {
-    grid_t *g = mk_grid(3, 3, 10.0);
+    grid_t *g = fx_lattice(3, 3, 10.0);
     scen_t s;
     scen_cover_factor_t cf[2] = {{5, 0.5}, {7, 0.0}};
     network_t *net = NULL;
     err_t e = {0, ""};
 
-    init_scen(&s);
+    fx_scen_init(&s);
     s.cover_factors = cf;
     s.n_cover_factors = 2;
     s.cover_default_factor = 0.8;
@@ -223,28 +166,28 @@ static void test_landcover_and_rows(void)
     CHECK(weight_of(net, 5, 8) < 0.0);
     CHECK(weight_of(net, 7, 8) < 0.0);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 
     /* Rows of different size, as on a lon/lat grid: between rows the mean is used. */
-    g = mk_grid(2, 2, 10.0);
+    g = fx_lattice(2, 2, 10.0);
     g->row_dx_m[0] = 8.0;
     g->row_dx_m[1] = 12.0;
     g->row_dy_m[0] = 10.0;
     g->row_dy_m[1] = 14.0;
-    init_scen(&s);
+    fx_scen_init(&s);
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     CHECK_REL(weight_of(net, 0, 1), 8.0, 1e-12);
     CHECK_REL(weight_of(net, 2, 3), 12.0, 1e-12);
     CHECK_REL(weight_of(net, 0, 2), 12.0, 1e-12);
     CHECK_REL(weight_of(net, 0, 3), hypot(10.0, 12.0), 1e-12);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 }
 
 static void test_roads(void)
 {
     /* 5 x 1 cells of 100 m; a road from the centre of cell 0 to that of cell 4. */
-    grid_t *g = mk_grid(5, 1, 100.0);
+    grid_t *g = fx_lattice(5, 1, 100.0);
     roads_t *r = mk_roads(2, 1, 2.0, 10.0);
     scen_t s;
     network_t *net = NULL;
@@ -252,7 +195,7 @@ static void test_roads(void)
     err_t e = {0, ""};
     int64_t a, b;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     r->x[0] = 50.0;
     r->y[0] = 50.0;
     r->x[1] = 450.0;
@@ -361,20 +304,20 @@ static void test_roads(void)
     network_get_stats(net, &st);
     CHECK(st.n_road_off_grid >= 1);
     network_free(net);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
 }
 
 static void test_sources(void)
 {
-    grid_t *g = mk_grid(3, 1, 10.0);
+    grid_t *g = fx_lattice(3, 1, 10.0);
     scen_t s;
     network_t *net = NULL;
     err_t e = {0, ""};
     int64_t sites[3] = {0, 2, 0};
     igraph_integer_t ec;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     ec = igraph_ecount(network_graph(net));
     CHECK(network_attach_sources(net, sites, 3, &e) == ERR_OK);
@@ -405,19 +348,19 @@ static void test_sources(void)
     CHECK(network_attach_sources(net, sites, 1, &e) == ERR_OK);
     CHECK_NEAR(weight_of(net, 3, 1), 0.0, 0.0);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 }
 
 static void test_errors(void)
 {
-    grid_t *g = mk_grid(2, 2, 10.0);
+    grid_t *g = fx_lattice(2, 2, 10.0);
     roads_t *r = mk_roads(2, 1, 1.0, 1.0);
     scen_t s;
     scen_cover_factor_t cf = {3, -1.0};
     network_t *net = (network_t *)&s;   /* must be reset to NULL on failure */
     err_t e;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     r->segs[0] = (road_seg_t){0, 1, 0, 0, 10.0, 0};
 
     g->nx = 0;
@@ -491,8 +434,8 @@ static void test_errors(void)
     CHECK(network_build(g, r, &s, &net, &e) == ERR_OK);
     network_free(net);
     network_free(NULL);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
 }
 
 int main(void)

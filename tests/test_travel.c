@@ -14,72 +14,11 @@
 #include <sys/stat.h>
 
 #include "check.h"
+#include "fixtures.h"
 #include "network.h"
 #include "travel.h"
 
 /* ---- hand-made inputs (see test_network.c for the same layout) ---- */
-
-static grid_t *mk_grid(int nx, int ny, double cell)
-{
-    grid_t *g = calloc(1, sizeof *g);
-    g->nx = nx;
-    g->ny = ny;
-    g->gt[0] = 0.0;
-    g->gt[1] = cell;
-    g->gt[3] = ny * cell;
-    g->gt[5] = -cell;
-    g->row_dx_m = malloc((size_t)ny * sizeof(double));
-    g->row_dy_m = malloc((size_t)ny * sizeof(double));
-    for (int r = 0; r < ny; r++) g->row_dx_m[r] = g->row_dy_m[r] = cell;
-    return g;
-}
-
-static void free_grid(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->row_dx_m);
-    free(g->row_dy_m);
-    free(g->elevation);
-    free(g->landcover);
-    free(g->barrier);
-    free(g);
-}
-
-static void init_scen(scen_t *s)
-{
-    memset(s, 0, sizeof *s);
-    s->neighbours = 8;
-    s->walk_mps = 1.0;
-    s->use_slope = 1;
-    s->cover_default_factor = 1.0;
-    s->mode = SCEN_MODE_WALK;
-    s->direction = SCEN_TO_SITE;
-}
-
-static roads_t *mk_roads(size_t n_nodes, size_t n_segs, size_t n_classes)
-{
-    roads_t *r = calloc(1, sizeof *r);
-    r->n_nodes = n_nodes;
-    r->n_segs = n_segs;
-    r->x = calloc(n_nodes, sizeof *r->x);
-    r->y = calloc(n_nodes, sizeof *r->y);
-    r->node_junction = calloc(n_nodes, 1);
-    r->segs = calloc(n_segs, sizeof *r->segs);
-    r->n_classes = n_classes;
-    r->classes = calloc(n_classes, sizeof *r->classes);
-    return r;
-}
-
-static void free_roads(roads_t *r)
-{
-    if (r == NULL) return;
-    free(r->x);
-    free(r->y);
-    free(r->node_junction);
-    free(r->segs);
-    free(r->classes);
-    free(r);
-}
 
 /* Put road node i at the centre of cell (col,row) of grid g, shifted by (ox,oy) m. */
 static void road_at(roads_t *r, const grid_t *g, size_t i, int col, int row, double ox,
@@ -104,8 +43,8 @@ static void seg(roads_t *r, size_t i, int a, int b, int cls, uint8_t flags)
 static void mk_world(int nx, int ny, grid_t **gout, roads_t **rout, scen_t *s,
                      scen_cover_factor_t *cf)
 {
-    grid_t *g = mk_grid(nx, ny, 50.0);
-    roads_t *r = mk_roads(8, 5, 3);
+    grid_t *g = fx_lattice(nx, ny, 50.0);
+    roads_t *r = fx_roads(8, 5, 3);
     int river = nx / 2;
 
     g->elevation = malloc((size_t)nx * ny * sizeof(float));
@@ -126,7 +65,7 @@ static void mk_world(int nx, int ny, grid_t **gout, roads_t **rout, scen_t *s,
     cf[1] = (scen_cover_factor_t){1, 0.6};
     cf[2] = (scen_cover_factor_t){2, 0.35};
     cf[3] = (scen_cover_factor_t){3, 0.0};
-    init_scen(s);
+    fx_scen_init(s);
     s->walk_mps = 5.0 / 3.6;
     s->cover_factors = cf;
     s->n_cover_factors = 4;
@@ -165,7 +104,7 @@ static void igraph_from(const network_t *net, int64_t src, igraph_matrix_t *m)
 
 static double max_dir_error(int neighbours, int n)
 {
-    grid_t *g = mk_grid(n, n, 100.0);
+    grid_t *g = fx_lattice(n, n, 100.0);
     scen_t s;
     network_t *net = NULL;
     travel_result_t *res = NULL;
@@ -173,7 +112,7 @@ static double max_dir_error(int neighbours, int n)
     int64_t site;
     double worst = 0.0;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     s.neighbours = neighbours;
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     site = network_cell_node(net, n / 2, n / 2);
@@ -188,13 +127,13 @@ static double max_dir_error(int neighbours, int n)
     }
     travel_result_free(res);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
     return worst;
 }
 
 static void test_lattice(void)
 {
-    grid_t *g = mk_grid(21, 21, 100.0);
+    grid_t *g = fx_lattice(21, 21, 100.0);
     scen_t s;
     network_t *net = NULL;
     travel_result_t *res = NULL;
@@ -202,7 +141,7 @@ static void test_lattice(void)
     int64_t site;
     double worst = 0.0;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     s.walk_mps = 1.25;
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     site = network_cell_node(net, 10, 10);
@@ -222,7 +161,7 @@ static void test_lattice(void)
     CHECK(worst < 1e-12);
     travel_result_free(res);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 
     /* Worst direction error against the straight line, from lattice geometry:
      * 8 neighbours: sqrt(1 + (sqrt2 - 1)^2) - 1 = 8.24%, at slope tan 22.5 deg;
@@ -237,15 +176,15 @@ static void test_lattice(void)
 
 static void test_road_shortcut(void)
 {
-    grid_t *g = mk_grid(60, 3, 100.0);
-    roads_t *r = mk_roads(2, 1, 1);
+    grid_t *g = fx_lattice(60, 3, 100.0);
+    roads_t *r = fx_roads(2, 1, 1);
     scen_t s;
     network_t *net = NULL;
     travel_result_t *res = NULL;
     err_t e = {0, ""};
     int64_t site;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     r->classes[0].walk_mps = 10.0;
     r->classes[0].vehicle_mps = 10.0;
     road_at(r, g, 0, 1, 1, 0.0, 0.0);
@@ -266,14 +205,14 @@ static void test_road_shortcut(void)
     CHECK_REL(res->time_s[network_cell_node(net, 59, 1)], 5900.0, 1e-12);
     travel_result_free(res);
     network_free(net);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
 }
 
 static void test_bridge(void)
 {
-    grid_t *g = mk_grid(11, 3, 100.0);
-    roads_t *r = mk_roads(2, 1, 1);
+    grid_t *g = fx_lattice(11, 3, 100.0);
+    roads_t *r = fx_roads(2, 1, 1);
     scen_t s;
     network_t *net = NULL;
     travel_result_t *res = NULL;
@@ -281,7 +220,7 @@ static void test_bridge(void)
     int64_t site;
     uint8_t kinds[2] = {ROAD_BRIDGE, ROAD_TUNNEL};
 
-    init_scen(&s);
+    fx_scen_init(&s);
     g->barrier = calloc(33, 1);
     for (int row = 0; row < 3; row++) g->barrier[row * 11 + 5] = 1;
     r->classes[0].walk_mps = 1.0;
@@ -309,21 +248,21 @@ static void test_bridge(void)
     CHECK(res->site[network_cell_node(net, 4, 1)] == 0);
     travel_result_free(res);
     network_free(net);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
 }
 
 static void test_oneway(void)
 {
-    grid_t *g = mk_grid(30, 1, 100.0);
-    roads_t *r = mk_roads(2, 1, 1);
+    grid_t *g = fx_lattice(30, 1, 100.0);
+    roads_t *r = fx_roads(2, 1, 1);
     scen_t s;
     network_t *net = NULL;
     travel_result_t *res = NULL;
     err_t e = {0, ""};
     int64_t west, east;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     s.mode = SCEN_MODE_VEHICLE;
     r->classes[0].walk_mps = 1.0;
     r->classes[0].vehicle_mps = 20.0;
@@ -358,20 +297,20 @@ static void test_oneway(void)
     CHECK_REL(res->time_s[east], 2900.0, 1e-12);
     travel_result_free(res);
     network_free(net);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
 }
 
 static void test_barrier_ring(void)
 {
-    grid_t *g = mk_grid(5, 5, 10.0);
+    grid_t *g = fx_lattice(5, 5, 10.0);
     scen_t s;
     network_t *net = NULL;
     travel_result_t *res = NULL;
     err_t e = {0, ""};
     int64_t site = 0;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     g->barrier = calloc(25, 1);
     for (int row = 1; row <= 3; row++)
         for (int col = 1; col <= 3; col++) g->barrier[row * 5 + col] = (row != 2 || col != 2);
@@ -388,19 +327,19 @@ static void test_barrier_ring(void)
     CHECK(isinf(res->time_s[0]));
     travel_result_free(res);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 }
 
 static void test_direction_slope(void)
 {
-    grid_t *g = mk_grid(5, 1, 100.0);
+    grid_t *g = fx_lattice(5, 1, 100.0);
     scen_t s;
     network_t *to = NULL, *from = NULL;
     travel_result_t *a = NULL, *b = NULL, *c = NULL;
     err_t e = {0, ""};
     int64_t bottom = 0, top = 4;
 
-    init_scen(&s);
+    fx_scen_init(&s);
     g->elevation = malloc(5 * sizeof(float));
     for (int i = 0; i < 5; i++) g->elevation[i] = (float)(10.0 * i);   /* S = 0.1 */
     CHECK(network_build(g, NULL, &s, &to, &e) == ERR_OK);
@@ -423,7 +362,7 @@ static void test_direction_slope(void)
     travel_result_free(c);
     network_free(to);
     network_free(from);
-    free_grid(g);
+    fx_lattice_free(g);
 }
 
 /* ---- against igraph on the full graph ---- */
@@ -546,8 +485,8 @@ static void test_against_igraph(void)
         compare_bounded(net, src, 12, 900.0);
         compare_bounded(net, src, 3, 0.0);
         network_free(net);
-        free_roads(r);
-        free_grid(g);
+        fx_roads_free(r);
+        fx_lattice_free(g);
     }
 }
 
@@ -555,7 +494,7 @@ static void test_against_igraph(void)
 
 static void test_errors(void)
 {
-    grid_t *g = mk_grid(4, 3, 10.0), *g2 = mk_grid(2, 2, 10.0);
+    grid_t *g = fx_lattice(4, 3, 10.0), *g2 = fx_lattice(2, 2, 10.0);
     scen_t s;
     network_t *net = NULL, *net2 = NULL;
     travel_result_t *res = (travel_result_t *)&s;
@@ -564,7 +503,7 @@ static void test_errors(void)
     err_t e;
     int64_t sites[2] = {0, 12};
 
-    init_scen(&s);
+    fx_scen_init(&s);
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     CHECK(network_build(g2, NULL, &s, &net2, &e) == ERR_OK);
 
@@ -619,18 +558,18 @@ static void test_errors(void)
     travel_ws_free(NULL);
     network_free(net);
     network_free(net2);
-    free_grid(g);
-    free_grid(g2);
+    fx_lattice_free(g);
+    fx_lattice_free(g2);
 
     /* A single cell: no edges at all; its own site reaches it in 0 s. */
-    g = mk_grid(1, 1, 10.0);
+    g = fx_lattice(1, 1, 10.0);
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     sites[0] = 0;
     CHECK(travel_nearest(net, sites, 1, &res, &e) == ERR_OK);
     CHECK(res != NULL && res->time_s[0] == 0.0 && res->site[0] == 0);
     travel_result_free(res);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 }
 
 /* ---- helper modes for the networkx cross-check ---- */
@@ -701,8 +640,8 @@ static int export_one(const char *dir, int vehicle_from, err_t *e)
 done:
     travel_result_free(res);
     network_free(net);
-    free_roads(r);
-    free_grid(g);
+    fx_roads_free(r);
+    fx_lattice_free(g);
     return rc;
 }
 

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "check.h"
+#include "fixtures.h"
 #include "compare.h"
 #include "network.h"
 #include "scen_variants.h"
@@ -106,57 +107,13 @@ static void test_parse(void)
 
 /* ---- network edits on a row of cells ---- */
 
-static grid_t *mk_grid(int nx, int ny, double cell)
-{
-    grid_t *g = calloc(1, sizeof *g);
-    g->nx = nx;
-    g->ny = ny;
-    g->gt[1] = cell;
-    g->gt[3] = ny * cell;
-    g->gt[5] = -cell;
-    g->row_dx_m = malloc((size_t)ny * sizeof(double));
-    g->row_dy_m = malloc((size_t)ny * sizeof(double));
-    g->row_area_m2 = malloc((size_t)ny * sizeof(double));
-    g->people = calloc((size_t)nx * ny, sizeof(double));
-    for (int r = 0; r < ny; r++) {
-        g->row_dx_m[r] = g->row_dy_m[r] = cell;
-        g->row_area_m2[r] = cell * cell;
-    }
-    return g;
-}
-
-static void free_grid(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->row_dx_m);
-    free(g->row_dy_m);
-    free(g->row_area_m2);
-    free(g->people);
-    free(g->barrier);
-    free(g);
-}
-
-static void init_scen(scen_t *s)
-{
-    memset(s, 0, sizeof *s);
-    s->neighbours = 8;
-    s->walk_mps = 1.0;
-    s->cover_default_factor = 1.0;
-    s->mode = SCEN_MODE_WALK;
-    s->direction = SCEN_TO_SITE;
-    s->limit_s = 3600;
-    s->n_bands = 2;
-    s->bands_s[0] = 600;
-    s->bands_s[1] = 3600;
-}
-
 /* Five cells of 100 m in a row, walking at 1 m/s, the site in cell 0: cell 4 is
  * 400 s away. Slowing cells 2 and 3 by half doubles every edge touching them
  * (1-2, 2-3 once, 3-4): 100 + 200 + 200 + 200 = 700 s on paper. Closing them cuts
  * cells 2-4 off. Reset gives back exactly the first times. */
 static void test_edit_cells(void)
 {
-    grid_t *g = mk_grid(5, 1, 100.0);
+    grid_t *g = fx_lattice(5, 1, 100.0);
     scen_t s;
     network_t *net = NULL;
     travel_result_t *a = NULL, *b = NULL, *c = NULL, *d = NULL;
@@ -165,7 +122,7 @@ static void test_edit_cells(void)
     size_t n = 0;
     err_t e = {0};
 
-    init_scen(&s);
+    fx_scen_init(&s);
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     if (net == NULL) goto done;
     CHECK(network_n_segs(net) == 0);
@@ -199,7 +156,7 @@ done:
     travel_result_free(c);
     travel_result_free(d);
     network_free(net);
-    free_grid(g);
+    fx_lattice_free(g);
 }
 
 /* ---- variants on in-memory inputs ---- */
@@ -229,7 +186,7 @@ static void mk_world(world_t *w)
 {
     static const int col[6] = {1, 5, 5, 7, 7, 11};
     memset(w, 0, sizeof *w);
-    w->g = mk_grid(12, 3, 100.0);
+    w->g = fx_lattice(12, 3, 100.0);
     w->g->barrier = calloc(36, 1);
     for (int r = 0; r < 3; r++)
         for (int c = 0; c < 12; c++) {
@@ -298,7 +255,7 @@ static void mk_world(world_t *w)
     w->cand.capacity = w->c_cap;
     w->cand.cost = w->c_cost;
     w->cand.storage_m3 = w->c_st;
-    init_scen(&w->s);
+    fx_scen_init(&w->s);
     w->s.road_class_field = "highway";
     w->in.scen = &w->s;
     w->in.grid = w->g;
@@ -432,7 +389,7 @@ static void test_apply(void)
     }
 done:
     network_free(net);
-    free_grid(w.g);
+    fx_lattice_free(w.g);
 }
 
 /* The repaired tree against a full igraph search on the edited network, for
@@ -515,7 +472,7 @@ done:
     sptree_destroy(&t);
     sptree_destroy(NULL);
     network_free(net);
-    free_grid(w.g);
+    fx_lattice_free(w.g);
     free(mask);
 }
 

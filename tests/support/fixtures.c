@@ -95,3 +95,81 @@ const char *fx_path(const char *dir, const char *name)
     snprintf(buf[k], sizeof buf[k], "%s/%s", dir, name);
     return buf[k];
 }
+
+grid_t *fx_lattice(int nx, int ny, double cell)
+{
+    grid_t *g = calloc(1, sizeof *g);
+    size_t rows = (size_t)(ny > 0 ? ny : 1), cells = (size_t)nx * (size_t)(ny > 0 ? ny : 0);
+
+    if (g == NULL) exit(2);
+    g->nx = nx;
+    g->ny = ny;
+    g->gt[1] = cell;
+    g->gt[3] = ny * cell;
+    g->gt[5] = -cell;
+    g->row_dx_m = malloc(rows * sizeof(double));
+    g->row_dy_m = malloc(rows * sizeof(double));
+    g->row_area_m2 = malloc(rows * sizeof(double));
+    g->people = calloc(cells ? cells : 1, sizeof(double));
+    if (!g->row_dx_m || !g->row_dy_m || !g->row_area_m2 || !g->people) exit(2);
+    for (int r = 0; r < ny; r++) {
+        g->row_dx_m[r] = g->row_dy_m[r] = cell;
+        g->row_area_m2[r] = cell * cell;
+    }
+    return g;
+}
+
+void fx_lattice_free(grid_t *g)
+{
+    if (g == NULL) return;
+    free(g->row_dx_m);
+    free(g->row_dy_m);
+    free(g->row_area_m2);
+    free(g->people);
+    free(g->elevation);
+    free(g->landcover);
+    free(g->barrier);
+    free(g);
+}
+
+void fx_scen_init(scen_t *s)
+{
+    memset(s, 0, sizeof *s);
+    s->neighbours = 8;
+    s->walk_mps = 1.0;
+    s->use_slope = 1;
+    s->cover_default_factor = 1.0;
+    s->mode = SCEN_MODE_WALK;
+    s->direction = SCEN_TO_SITE;
+    s->limit_s = 3600;
+    s->n_bands = 2;
+    s->bands_s[0] = 600;
+    s->bands_s[1] = 3600;
+}
+
+roads_t *fx_roads(size_t n_nodes, size_t n_segs, size_t n_classes)
+{
+    roads_t *r = calloc(1, sizeof *r);
+    if (r == NULL) exit(2);
+    r->n_nodes = n_nodes;
+    r->n_segs = n_segs;
+    r->x = calloc(n_nodes ? n_nodes : 1, sizeof *r->x);
+    r->y = calloc(n_nodes ? n_nodes : 1, sizeof *r->y);
+    r->node_junction = calloc(n_nodes ? n_nodes : 1, 1);
+    r->segs = calloc(n_segs ? n_segs : 1, sizeof *r->segs);
+    r->n_classes = n_classes;
+    r->classes = calloc(n_classes ? n_classes : 1, sizeof *r->classes);
+    if (!r->x || !r->y || !r->node_junction || !r->segs || !r->classes) exit(2);
+    return r;
+}
+
+void fx_roads_free(roads_t *r)
+{
+    if (r == NULL) return;
+    free(r->x);
+    free(r->y);
+    free(r->node_junction);
+    free(r->segs);
+    free(r->classes);
+    free(r);
+}
