@@ -7,6 +7,7 @@
 #include <cJSON.h>
 
 #include "cli.h"
+#include "job.h"
 #include "compare.h"
 #include "districts.h"
 #include "inputs.h"
@@ -36,57 +37,26 @@ const char cmd_compare_usage[] =
 
 int cmd_compare(const cli_options_t *o, err_t *e)
 {
-    inputs_t *in = NULL;
-    districts_t *d = NULL;
-    network_t *net = NULL;
+    cli_job_t j;
     compare_result_t res = {0};
-    cJSON *sum = NULL;
-    char *path = NULL;
-    progress_t pr;
-    int rc;
+    int rc, human;
 
-    progress_init(&pr, o->quiet);
-    rc = inputs_load(o->scenario, o->quiet, &in, e);
-    if (rc != ERR_OK) goto done;
-    rc = out_mkdir(o->outdir, e);
-    if (rc != ERR_OK) goto done;
-    if (in->scen->districts.path != NULL) {
-        rc = districts_load(&in->scen->districts, in->grid, &d, e);
-        if (rc != ERR_OK) goto done;
-    }
-    rc = summary_new("compare", in, &sum, e);
-    if (rc != ERR_OK) goto done;
-
-    progress_start(&pr, "building travel network");
-    rc = network_build(in->grid, in->roads, in->scen, &net, e);
-    summary_time(sum, "build_network", progress_end(&pr));
+    rc = cli_job_open(o, "compare", NULL, &j, e);
     if (rc != ERR_OK) goto done;
     {
         double t0 = progress_now();
-        rc = compare_run(in, net, d, o->outdir, o->threads, o->quiet, sum, &res, e);
-        summary_time(sum, "compare", progress_now() - t0);
+        rc = compare_run(j.in, j.net, j.districts, o->outdir, o->threads, o->quiet, j.summary,
+                         &res, e);
+        summary_time(j.summary, "compare", progress_now() - t0);
     }
     if (rc != ERR_OK) goto done;
-    summary_caution(sum);
-    path = out_join(o->outdir, "summary.json");
-    rc = out_write_json(path, sum, e);
-    if (rc != ERR_OK) goto done;
-
-    if (o->json) {
-        char *text = cJSON_Print(sum);
-        if (text != NULL) puts(text);
-        cJSON_free(text);
-    } else if (!o->quiet) {
-        for (size_t i = 0; i < in->warnings.n; i++) printf("warning: %s\n", in->warnings.items[i]);
-        compare_print(in, &res);
-        printf("outputs in %s\n%s\n", o->outdir, summary_caution_text);
+    rc = cli_job_finish(o, &j, &human, e);
+    if (rc == ERR_OK && human) {
+        compare_print(j.in, &res);
+        cli_job_footer(o);
     }
 done:
-    free(path);
-    cJSON_Delete(sum);
     compare_result_destroy(&res);
-    network_free(net);
-    districts_free(d);
-    inputs_free(in);
+    cli_job_close(&j);
     return rc;
 }

@@ -6,6 +6,7 @@
 #include <cJSON.h>
 
 #include "cli.h"
+#include "job.h"
 #include "inputs.h"
 #include "links.h"
 #include "network.h"
@@ -29,61 +30,39 @@ const char cmd_links_usage[] =
     "  --quiet       no progress lines and no human summary\n"
     "  --threads N   threads for the scoring (default: all cores)\n";
 
+/* Refuse a scenario without roads before anything is written. */
+static int need_roads(const cli_options_t *o, const inputs_t *in, err_t *e)
+{
+    if (in->roads == NULL || in->roads->n_segs == 0)
+        return err_set(e, ERR_INPUT, "scenario '%s' has no roads to rank; give inputs.roads",
+                       o->scenario);
+    return ERR_OK;
+}
+
 int cmd_links(const cli_options_t *o, err_t *e)
 {
-    inputs_t *in = NULL;
-    network_t *net = NULL;
+    cli_job_t j;
     links_t *L = NULL;
-    cJSON *sum = NULL;
-    char *path = NULL;
-    progress_t pr;
-    int rc;
+    int rc, human;
 
-    progress_init(&pr, o->quiet);
-    rc = inputs_load(o->scenario, o->quiet, &in, e);
+    rc = cli_job_open(o, "links", need_roads, &j, e);
     if (rc != ERR_OK) goto done;
-    if (in->roads == NULL || in->roads->n_segs == 0) {
-        rc = err_set(e, ERR_INPUT, "scenario '%s' has no roads to rank; give inputs.roads",
-                     o->scenario);
-        goto done;
-    }
-    rc = out_mkdir(o->outdir, e);
+    rc = links_build(j.in->roads, &L, e);
     if (rc != ERR_OK) goto done;
-    rc = summary_new("links", in, &sum, e);
+    progress_start(&j.progress, "scoring road links");
+    rc = links_score(L, j.net, j.in->grid->people, j.in->existing, j.in->grid->nx,
+                     j.in->scen->limit_s, o->threads, e);
+    summary_time(j.summary, "score_links", progress_end(&j.progress));
     if (rc != ERR_OK) goto done;
-
-    progress_start(&pr, "building travel network");
-    rc = network_build(in->grid, in->roads, in->scen, &net, e);
-    summary_time(sum, "build_network", progress_end(&pr));
+    rc = links_write(o->outdir, j.in, L, j.summary, e);
     if (rc != ERR_OK) goto done;
-    rc = links_build(in->roads, &L, e);
-    if (rc != ERR_OK) goto done;
-    progress_start(&pr, "scoring road links");
-    rc = links_score(L, net, in->grid->people, in->existing, in->grid->nx, in->scen->limit_s,
-                     o->threads, e);
-    summary_time(sum, "score_links", progress_end(&pr));
-    if (rc != ERR_OK) goto done;
-    rc = links_write(o->outdir, in, L, sum, e);
-    if (rc != ERR_OK) goto done;
-    summary_caution(sum);
-    path = out_join(o->outdir, "summary.json");
-    rc = out_write_json(path, sum, e);
-    if (rc != ERR_OK) goto done;
-
-    if (o->json) {
-        char *text = cJSON_Print(sum);
-        if (text != NULL) puts(text);
-        cJSON_free(text);
-    } else if (!o->quiet) {
-        for (size_t i = 0; i < in->warnings.n; i++) printf("warning: %s\n", in->warnings.items[i]);
-        links_print(in, L, 10);
-        printf("outputs in %s\n%s\n", o->outdir, summary_caution_text);
+    rc = cli_job_finish(o, &j, &human, e);
+    if (rc == ERR_OK && human) {
+        links_print(j.in, L, 10);
+        cli_job_footer(o);
     }
 done:
-    free(path);
-    cJSON_Delete(sum);
     links_free(L);
-    network_free(net);
-    inputs_free(in);
+    cli_job_close(&j);
     return rc;
 }

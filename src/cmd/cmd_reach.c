@@ -6,11 +6,7 @@
 #include <cJSON.h>
 
 #include "cli.h"
-#include "districts.h"
-#include "inputs.h"
-#include "network.h"
-#include "output.h"
-#include "progress.h"
+#include "job.h"
 #include "reach.h"
 #include "summary.h"
 
@@ -33,60 +29,28 @@ const char cmd_reach_usage[] =
 
 int cmd_reach(const cli_options_t *o, err_t *e)
 {
-    inputs_t *in = NULL;
-    districts_t *d = NULL;
-    network_t *net = NULL;
+    cli_job_t j;
     reach_result_t res = {0};
-    cJSON *sum = NULL;
-    char *path = NULL;
-    progress_t pr;
-    int rc;
+    int rc, human;
 
-    progress_init(&pr, o->quiet);
-    rc = inputs_load(o->scenario, o->quiet, &in, e);
+    rc = cli_job_open(o, "reach", NULL, &j, e);
     if (rc != ERR_OK) goto done;
-    rc = out_mkdir(o->outdir, e);
+    rc = reach_run(j.in, j.net, j.in->existing, j.districts, o->threads, o->quiet, &res, e);
     if (rc != ERR_OK) goto done;
-    if (in->scen->districts.path != NULL) {
-        rc = districts_load(&in->scen->districts, in->grid, &d, e);
-        if (rc != ERR_OK) goto done;
-    }
-    rc = summary_new("reach", in, &sum, e);
-    if (rc != ERR_OK) goto done;
+    summary_time(j.summary, "nearest_site_pass", res.seconds_nearest);
+    summary_time(j.summary, "capacity_searches", res.seconds_capacity);
 
-    progress_start(&pr, "building travel network");
-    rc = network_build(in->grid, in->roads, in->scen, &net, e);
-    summary_time(sum, "build_network", progress_end(&pr));
+    progress_start(&j.progress, "writing outputs");
+    rc = reach_write(o->outdir, j.in, j.in->existing, j.districts, &res, j.summary, e);
+    summary_time(j.summary, "write_outputs", progress_end(&j.progress));
     if (rc != ERR_OK) goto done;
-    rc = reach_run(in, net, in->existing, d, o->threads, o->quiet, &res, e);
-    if (rc != ERR_OK) goto done;
-    summary_time(sum, "nearest_site_pass", res.seconds_nearest);
-    summary_time(sum, "capacity_searches", res.seconds_capacity);
-
-    progress_start(&pr, "writing outputs");
-    rc = reach_write(o->outdir, in, in->existing, d, &res, sum, e);
-    summary_time(sum, "write_outputs", progress_end(&pr));
-    if (rc != ERR_OK) goto done;
-    summary_caution(sum);
-    path = out_join(o->outdir, "summary.json");
-    rc = out_write_json(path, sum, e);
-    if (rc != ERR_OK) goto done;
-
-    if (o->json) {
-        char *text = cJSON_Print(sum);
-        if (text != NULL) puts(text);
-        cJSON_free(text);
-    } else if (!o->quiet) {
-        for (size_t i = 0; i < in->warnings.n; i++) printf("warning: %s\n", in->warnings.items[i]);
-        reach_print(in, in->existing, d, &res);
-        printf("outputs in %s\n%s\n", o->outdir, summary_caution_text);
+    rc = cli_job_finish(o, &j, &human, e);
+    if (rc == ERR_OK && human) {
+        reach_print(j.in, j.in->existing, j.districts, &res);
+        cli_job_footer(o);
     }
 done:
-    free(path);
-    cJSON_Delete(sum);
     reach_result_destroy(&res);
-    network_free(net);
-    districts_free(d);
-    inputs_free(in);
+    cli_job_close(&j);
     return rc;
 }

@@ -1,0 +1,72 @@
+/* job: shared opening and closing of the grid commands (see job.h). */
+#include "job.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+
+#include "output.h"
+#include "summary.h"
+
+int cli_job_open(const cli_options_t *o, const char *command,
+                 int (*check)(const cli_options_t *o, const inputs_t *in, err_t *e),
+                 cli_job_t *j, err_t *e)
+{
+    int rc;
+
+    j->in = NULL;
+    j->districts = NULL;
+    j->net = NULL;
+    j->summary = NULL;
+    progress_init(&j->progress, o->quiet);
+    rc = inputs_load(o->scenario, o->quiet, &j->in, e);
+    if (rc == ERR_OK && check != NULL) rc = check(o, j->in, e);
+    if (rc == ERR_OK) rc = out_mkdir(o->outdir, e);
+    if (rc == ERR_OK && j->in->scen->districts.path != NULL)
+        rc = districts_load(&j->in->scen->districts, j->in->grid, &j->districts, e);
+    if (rc == ERR_OK) rc = summary_new(command, j->in, &j->summary, e);
+    if (rc != ERR_OK) return rc;
+    progress_start(&j->progress, "building travel network");
+    rc = network_build(j->in->grid, j->in->roads, j->in->scen, &j->net, e);
+    summary_time(j->summary, "build_network", progress_end(&j->progress));
+    return rc;
+}
+
+int cli_job_finish(const cli_options_t *o, cli_job_t *j, int *human, err_t *e)
+{
+    char *path = out_join(o->outdir, "summary.json");
+    int rc;
+
+    *human = 0;
+    if (path == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    summary_caution(j->summary);
+    rc = out_write_json(path, j->summary, e);
+    free(path);
+    if (rc != ERR_OK) return rc;
+    if (o->json) {
+        char *text = cJSON_Print(j->summary);
+        if (text != NULL) puts(text);
+        cJSON_free(text);
+    } else if (!o->quiet) {
+        for (size_t i = 0; i < j->in->warnings.n; i++)
+            printf("warning: %s\n", j->in->warnings.items[i]);
+        *human = 1;
+    }
+    return ERR_OK;
+}
+
+void cli_job_footer(const cli_options_t *o)
+{
+    printf("outputs in %s\n%s\n", o->outdir, summary_caution_text);
+}
+
+void cli_job_close(cli_job_t *j)
+{
+    cJSON_Delete(j->summary);
+    network_free(j->net);
+    districts_free(j->districts);
+    inputs_free(j->in);
+    j->summary = NULL;
+    j->net = NULL;
+    j->districts = NULL;
+    j->in = NULL;
+}
