@@ -293,8 +293,15 @@ static void set_fields(OGRFeatureH f, const table_t *t, size_t row)
     }
 }
 
-int out_write_points_gpkg(const char *path, const char *layer, const char *wkt,
-                          const double *x, const double *y, const table_t *t, err_t *e)
+/* Geometry of row i of a feature table; NULL = no feature for that row. The
+ * writer takes ownership of what it returns. */
+typedef OGRGeometryH (*geom_fn)(const void *ctx, size_t i);
+
+/* One GeoPackage layer, a feature per table row with the geometry geom(ctx, i),
+ * written in one transaction to a temporary name and renamed when complete. */
+static int write_features(const char *path, const char *layer, const char *wkt,
+                          OGRwkbGeometryType gtype, const table_t *t, geom_fn geom,
+                          const void *ctx, err_t *e)
 {
     GDALDatasetH ds = NULL;
     OGRLayerH lay = NULL;
@@ -303,21 +310,22 @@ int out_write_points_gpkg(const char *path, const char *layer, const char *wkt,
 
     if (tmp == NULL) return err_set(e, ERR_NOMEM, "out of memory writing '%s'", path);
     CPLErrorReset();
-    rc = gpkg_create(tmp, path, layer, wkt, wkbPoint, t, &ds, &lay, e);
+    rc = gpkg_create(tmp, path, layer, wkt, gtype, t, &ds, &lay, e);
     if (rc != ERR_OK) goto done;
     if (OGR_L_StartTransaction(lay) != OGRERR_NONE) {
         rc = err_set(e, ERR_IO, "cannot start writing '%s'", path);
         goto done;
     }
     for (size_t i = 0; i < table_rows(t); i++) {
-        OGRFeatureH f = OGR_F_Create(OGR_L_GetLayerDefn(lay));
-        OGRGeometryH pt = OGR_G_CreateGeometry(wkbPoint);
-        OGR_G_SetPoint_2D(pt, 0, x[i], y[i]);
-        OGR_F_SetGeometryDirectly(f, pt);
+        OGRGeometryH g = geom(ctx, i);
+        OGRFeatureH f;
+        if (g == NULL) continue;
+        f = OGR_F_Create(OGR_L_GetLayerDefn(lay));
+        OGR_F_SetGeometryDirectly(f, g);
         set_fields(f, t, i);
         if (OGR_L_CreateFeature(lay, f) != OGRERR_NONE) {
             OGR_F_Destroy(f);
-            rc = err_set(e, ERR_IO, "cannot write point %zu to '%s': %s", i, path,
+            rc = err_set(e, ERR_IO, "cannot write feature %zu to '%s': %s", i, path,
                          CPLGetLastErrorMsg());
             goto done;
         }
@@ -335,64 +343,62 @@ done:
     if (rc != ERR_OK) unlink(tmp);
     free(tmp);
     return rc;
+}
+
+typedef struct coords {
+    const double *x, *y;
+    const size_t *start;   /* lines: points of line i are [start[i], start[i+1]) */
+} coords_t;
+
+static OGRGeometryH point_geom(const void *ctx, size_t i)
+{
+    const coords_t *c = ctx;
+    OGRGeometryH pt = OGR_G_CreateGeometry(wkbPoint);
+    OGR_G_SetPoint_2D(pt, 0, c->x[i], c->y[i]);
+    return pt;
+}
+
+static OGRGeometryH line_geom(const void *ctx, size_t i)
+{
+    const coords_t *c = ctx;
+    OGRGeometryH ln = OGR_G_CreateGeometry(wkbLineString);
+    for (size_t k = c->start[i]; k < c->start[i + 1]; k++) OGR_G_AddPoint_2D(ln, c->x[k], c->y[k]);
+    return ln;
+}
+
+int out_write_points_gpkg(const char *path, const char *layer, const char *wkt,
+                          const double *x, const double *y, const table_t *t, err_t *e)
+{
+    coords_t c = {x, y, NULL};
+    return write_features(path, layer, wkt, wkbPoint, t, point_geom, &c, e);
 }
 
 int out_write_lines_gpkg(const char *path, const char *layer, const char *wkt,
                          const double *x, const double *y, const size_t *start,
                          const table_t *t, err_t *e)
 {
-    GDALDatasetH ds = NULL;
-    OGRLayerH lay = NULL;
-    char *tmp = out_tmp_name(path);
-    int rc;
+    coords_t c = {x, y, start};
+    return write_features(path, layer, wkt, wkbLineString, t, line_geom, &c, e);
+}
 
-    if (tmp == NULL) return err_set(e, ERR_NOMEM, "out of memory writing '%s'", path);
-    CPLErrorReset();
-    rc = gpkg_create(tmp, path, layer, wkt, wkbLineString, t, &ds, &lay, e);
-    if (rc != ERR_OK) goto done;
-    if (OGR_L_StartTransaction(lay) != OGRERR_NONE) {
-        rc = err_set(e, ERR_IO, "cannot start writing '%s'", path);
-        goto done;
-    }
-    for (size_t i = 0; i < table_rows(t); i++) {
-        OGRFeatureH f = OGR_F_Create(OGR_L_GetLayerDefn(lay));
-        OGRGeometryH ln = OGR_G_CreateGeometry(wkbLineString);
-        for (size_t k = start[i]; k < start[i + 1]; k++) OGR_G_AddPoint_2D(ln, x[k], y[k]);
-        OGR_F_SetGeometryDirectly(f, ln);
-        set_fields(f, t, i);
-        if (OGR_L_CreateFeature(lay, f) != OGRERR_NONE) {
-            OGR_F_Destroy(f);
-            rc = err_set(e, ERR_IO, "cannot write line %zu to '%s': %s", i, path,
-                         CPLGetLastErrorMsg());
-            goto done;
-        }
-        OGR_F_Destroy(f);
-    }
-    if (OGR_L_CommitTransaction(lay) != OGRERR_NONE) {
-        rc = err_set(e, ERR_IO, "cannot finish writing '%s': %s", path, CPLGetLastErrorMsg());
-        goto done;
-    }
-    GDALClose(ds);
-    ds = NULL;
-    rc = out_rename(tmp, path, e);
-done:
-    if (ds != NULL) GDALClose(ds);
-    if (rc != ERR_OK) unlink(tmp);
-    free(tmp);
-    return rc;
+/* Polygons collected per label, handed over one by one. */
+static OGRGeometryH take_part(const void *ctx, size_t i)
+{
+    OGRGeometryH *parts = *(OGRGeometryH *const *)ctx;
+    OGRGeometryH g = parts[i];
+    parts[i] = NULL;
+    return g;
 }
 
 int out_write_label_polygons(const char *path, const char *layer, const grid_t *g,
                              const int32_t *label, const table_t *t, err_t *e)
 {
-    GDALDatasetH mem = NULL, vmem = NULL, ds = NULL;
-    OGRLayerH plays, lay = NULL;
+    GDALDatasetH mem = NULL, vmem = NULL;
+    OGRLayerH plays;
     OGRGeometryH *parts = NULL;
-    char *tmp = out_tmp_name(path);
     size_t n_rows = table_rows(t);
     int rc = ERR_OK;
 
-    if (tmp == NULL) return err_set(e, ERR_NOMEM, "out of memory writing '%s'", path);
     CPLErrorReset();
     parts = calloc(n_rows ? n_rows : 1, sizeof *parts);
     if (parts == NULL) {
@@ -439,43 +445,13 @@ int out_write_label_polygons(const char *path, const char *layer, const grid_t *
             OGR_F_Destroy(f);
         }
     }
-    rc = gpkg_create(tmp, path, layer, g->wkt, wkbMultiPolygon, t, &ds, &lay, e);
-    if (rc != ERR_OK) goto done;
-    if (OGR_L_StartTransaction(lay) != OGRERR_NONE) {
-        rc = err_set(e, ERR_IO, "cannot start writing '%s'", path);
-        goto done;
-    }
-    for (size_t i = 0; i < n_rows; i++) {
-        OGRFeatureH f;
-        if (parts[i] == NULL) continue;
-        f = OGR_F_Create(OGR_L_GetLayerDefn(lay));
-        OGR_F_SetGeometryDirectly(f, parts[i]);
-        parts[i] = NULL;
-        set_fields(f, t, i);
-        if (OGR_L_CreateFeature(lay, f) != OGRERR_NONE) {
-            OGR_F_Destroy(f);
-            rc = err_set(e, ERR_IO, "cannot write polygon %zu to '%s': %s", i, path,
-                         CPLGetLastErrorMsg());
-            goto done;
-        }
-        OGR_F_Destroy(f);
-    }
-    if (OGR_L_CommitTransaction(lay) != OGRERR_NONE) {
-        rc = err_set(e, ERR_IO, "cannot finish writing '%s': %s", path, CPLGetLastErrorMsg());
-        goto done;
-    }
-    GDALClose(ds);
-    ds = NULL;
-    rc = out_rename(tmp, path, e);
+    rc = write_features(path, layer, g->wkt, wkbMultiPolygon, t, take_part, &parts, e);
 done:
     if (parts != NULL)
         for (size_t i = 0; i < n_rows; i++)
             if (parts[i] != NULL) OGR_G_DestroyGeometry(parts[i]);
     free(parts);
-    if (ds != NULL) GDALClose(ds);
     if (mem != NULL) GDALClose(mem);
     if (vmem != NULL) GDALClose(vmem);
-    if (rc != ERR_OK) unlink(tmp);
-    free(tmp);
     return rc;
 }
