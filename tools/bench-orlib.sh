@@ -22,7 +22,7 @@ if [ "$which" = pmed ] || [ "$which" = all ]; then
     # 120 s per instance: the few small-p instances with a wide LP gap stop there
     # and print their bound ("lim").
     "$bin" pmed 1 40 1 1 120 || status=1
-    echo "pmed total: $(echo "$(now) - $t0" | bc) s"
+    echo "pmed total: $(echo "$(now) $t0" | awk '{printf "%.1f", $1 - $2}') s"
 fi
 if [ "$which" = cap ] || [ "$which" = all ]; then
     echo "== capacitated cap41..cap134, split demand (published optimum: OR-Library capopt, Beasley 1988)"
