@@ -114,9 +114,15 @@ int reach_run(const inputs_t *in, network_t *net, const points_t *sites,
 
     memset(res, 0, sizeof *res);
     progress_init(&pr, quiet);
-    if (sites == NULL || sites->n == 0)
+    if (sites == NULL || sites->n == 0) {
+        /* An empty layer is not a missing one: say which of the two it is. */
+        if (sites != NULL && sites == in->existing && in->scen->existing.path != NULL)
+            return err_set(e, ERR_INPUT, "scenario '%s': the sites.existing layer in '%s' has "
+                           "no points; give a layer with at least one site",
+                           in->scen->file, in->scen->existing.path);
         return err_set(e, ERR_INPUT, "scenario '%s' names no open sites; give a point layer in sites.existing",
                        in->scen->file);
+    }
     res->n_cells = (size_t)g->nx * (size_t)g->ny;
     res->n_sites = sites->n;
     nodes = malloc(sites->n * sizeof *nodes);

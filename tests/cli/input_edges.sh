@@ -1,0 +1,60 @@
+#!/bin/sh
+# Edge cases of the inputs, as a newcomer meets them: an empty site layer, no
+# roads, an elevation raster covering half the grid, a supply section whose
+# depots do not match the depot layer. 'check' must say what 'reach', 'supply'
+# and 'plan' would refuse, and those must refuse it before writing anything.
+NAME=input_edges
+. "$(dirname "$0")/../cli_lib.sh"
+$PY tests/cli/fixtures.py "$WORK/fx" >/dev/null || { bad "fixtures"; finish; exit 1; }
+$PY tests/cli/supply_fixtures.py "$WORK/sfx" >/dev/null || { bad "supply fixtures"; finish; exit 1; }
+F=$WORK/fx S=$WORK/sfx
+# edit IN OUT PYTHON: a copy of scenario IN with the Python statement applied to 'd'.
+edit() {
+    $PY -c "import json,sys; d=json.load(open(sys.argv[1])); $3; json.dump(d, open(sys.argv[2], 'w'))" "$1" "$2"
+}
+# no_files DIR: DIR is absent or holds no file at all (no partial outputs, no temporaries).
+no_files() {
+    if [ ! -d "$1" ] || [ -z "$(ls -A "$1")" ]; then ok; else bad "$1 holds $(ls -A "$1" | tr '\n' ' ')"; fi
+}
+
+# An existing-sites layer with no features: check warns, reach names the layer.
+# (GDAL's ogr2ogr keeps the fields and drops every feature.)
+ogr2ogr -where "1 = 0" "$F/no_points.gpkg" "$F/sites.geojson" 2>/dev/null
+edit "$F/good.json" "$F/empty_sites.json" 'd["sites"]["existing"]["path"] = "no_points.gpkg"'
+expect_ok "$BIN" check "$F/empty_sites.json"
+expect_out "existing sites layer in '$F/no_points.gpkg' has no points"
+expect_fail 1 "the sites.existing layer in '$F/no_points.gpkg' has no points" \
+    "$BIN" reach "$F/empty_sites.json" -o "$WORK/o_empty"
+
+# Without roads there is no distance to a road to report (it used to say 0 m).
+expect_ok "$BIN" check "$F/empty_roads.json"
+expect_out "points, no roads to measure from"
+if grep -q "farthest 0 m" "$WORK/out"; then bad "check claims 0 m to a road without roads"; else ok; fi
+expect_ok "$BIN" check "$F/empty_roads.json" --json
+if $PY -c 'import json,sys; d=json.load(open(sys.argv[1])); assert all(p["max_road_distance_m"] is None for p in d["points"])' "$WORK/out"; then ok; else bad "--json max_road_distance_m not null without roads"; fi
+
+# An elevation raster over the west half of the 20 x 20 grid (GDAL's own
+# gdal_translate cuts it): 10 x 20 = 200 of 400 cells get no height, by hand.
+gdal_translate -q -srcwin 0 0 10 20 "$F/pop.tif" "$F/west_half.tif"
+edit "$F/good.json" "$F/half_dem.json" 'd["inputs"]["elevation"] = "west_half.tif"'
+expect_ok "$BIN" check "$F/half_dem.json"
+expect_out "gives no height for 200 of 400 grid cells"
+# The same raster as land cover: the other 200 cells take landcover_default.
+edit "$F/good.json" "$F/half_lc.json" 'd["inputs"]["landcover"] = "west_half.tif"'
+expect_ok "$BIN" check "$F/half_lc.json"
+expect_out "gives no class for 200 of 400 grid cells"
+
+# supply.depot_stock naming a depot the layer lacks: check refuses it, and
+# supply and plan refuse it before writing any file.
+edit "$S/good.json" "$S/d9.json" 'd["supply"]["depot_stock"]["D9"] = {"water": 1}'
+expect_fail 1 "supply.depot_stock names depot 'D9'" "$BIN" check "$S/d9.json"
+expect_fail 1 "supply.depot_stock names depot 'D9'" "$BIN" supply "$S/d9.json" -o "$WORK/o_d9"
+no_files "$WORK/o_d9"
+expect_fail 1 "supply.depot_stock names depot 'D9'" "$BIN" plan "$S/d9.json" -o "$WORK/o_d9p"
+no_files "$WORK/o_d9p"
+# A supply section without a depot layer: the same, with what to add.
+edit "$S/good.json" "$S/nodep.json" 'del d["sites"]["depots"]'
+expect_fail 1 "supply needs depots, but sites.depots is not given" "$BIN" check "$S/nodep.json"
+expect_fail 1 "give a point layer of depots in sites.depots" "$BIN" supply "$S/nodep.json" -o "$WORK/o_nodep"
+no_files "$WORK/o_nodep"
+finish
