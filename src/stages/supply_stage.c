@@ -762,8 +762,18 @@ void supply_stage_print(const inputs_t *in, const points_t *sites, const supply_
                need + 0.0, st->comm[c].unit);
     }
     printf("\n");
-    printf("trips per depot (%s, gap %.2g%%):\n", solver_status_name(st->res.status),
-           isfinite(st->res.gap) ? 100 * st->res.gap : 0.0);
+    /* "optimal" from the solver means proven within the requested gap, not
+     * exactly best: say how close the plan is proven to be. */
+    if (st->res.status == SOLVER_OPTIMAL && (!isfinite(st->res.gap) || st->res.gap <= 0))
+        printf("trips per depot (the best possible plan, proven):\n");
+    else if (st->res.status == SOLVER_OPTIMAL)
+        printf("trips per depot (proven within %.2g%% of the best possible plan):\n",
+               100 * st->res.gap);
+    else if (isfinite(st->res.gap))
+        printf("trips per depot (%s: within %.2g%% of the best possible plan):\n",
+               solver_status_name(st->res.status), 100 * st->res.gap);
+    else
+        printf("trips per depot (%s):\n", solver_status_name(st->res.status));
     for (size_t d = 0; d < st->n_active; d++) {
         double trips = 0, kg = 0, hours = 0;
         size_t n_sites = 0;

@@ -57,4 +57,8 @@ edit "$S/good.json" "$S/nodep.json" 'del d["sites"]["depots"]'
 expect_fail 1 "supply needs depots, but sites.depots is not given" "$BIN" check "$S/nodep.json"
 expect_fail 1 "give a point layer of depots in sites.depots" "$BIN" supply "$S/nodep.json" -o "$WORK/o_nodep"
 no_files "$WORK/o_nodep"
+
+# The shipment plan says how close to the best it is proven, not "optimal, gap x%".
+expect_ok "$BIN" supply "$S/good.json" -o "$WORK/o_good"
+if grep -q "^trips per depot (.*best possible plan" "$WORK/out" && ! grep -q "optimal, gap" "$WORK/out"; then ok; else bad "trips line: $(grep 'trips per depot' "$WORK/out")"; fi
 finish
