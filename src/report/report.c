@@ -1251,9 +1251,13 @@ int report_write(const char *outdir, report_result_t *res, err_t *e)
     c.crs = str(grid, "crs") ? str(grid, "crs") : "unknown";
     /* The scenario gives layer and field names for roads and districts; when it
      * cannot be read again the maps fall back to defaults. */
-    if (str(c.sum, "scenario") != NULL) {
+    /* The inputs list holds its absolute path, so the report may run from any
+     * folder; the top-level "scenario" is as typed (older summaries). */
+    if (input_path(c.sum, "scenario") != NULL || str(c.sum, "scenario") != NULL) {
         err_t se = {0};
-        if (scen_load(str(c.sum, "scenario"), &c.scen, &se) != ERR_OK)
+        const char *sp_in = input_path(c.sum, "scenario") ? input_path(c.sum, "scenario")
+                                                          : str(c.sum, "scenario");
+        if (scen_load(sp_in, &c.scen, &se) != ERR_OK)
             note(&c, "scenario not read again (%s); map layers use default layer and field names", se.msg);
     }
     {

@@ -1,8 +1,9 @@
 #!/bin/sh
 # Edge cases of the inputs, as a newcomer meets them: an empty site layer, no
 # roads, an elevation raster covering half the grid, a supply section whose
-# depots do not match the depot layer. 'check' must say what 'reach', 'supply'
-# and 'plan' would refuse, and those must refuse it before writing anything.
+# depots do not match the depot layer, a report made from another folder.
+# 'check' must say what 'reach', 'supply' and 'plan' would refuse, and those
+# must refuse it before writing anything.
 NAME=input_edges
 . "$(dirname "$0")/../cli_lib.sh"
 $PY tests/cli/fixtures.py "$WORK/fx" >/dev/null || { bad "fixtures"; finish; exit 1; }
@@ -57,6 +58,13 @@ edit "$S/good.json" "$S/nodep.json" 'del d["sites"]["depots"]'
 expect_fail 1 "supply needs depots, but sites.depots is not given" "$BIN" check "$S/nodep.json"
 expect_fail 1 "give a point layer of depots in sites.depots" "$BIN" supply "$S/nodep.json" -o "$WORK/o_nodep"
 no_files "$WORK/o_nodep"
+
+# A scenario given by a relative path, and the report made from another folder:
+# the report finds the scenario again (its field names) instead of a note.
+case $BIN in /*) abs_bin=$BIN ;; *) abs_bin=$(pwd)/$BIN ;; esac
+(cd "$F" && "$abs_bin" reach good.json -o "$WORK/o_rel" --quiet) || bad "reach from the fixture folder"
+(cd / && "$abs_bin" report "$WORK/o_rel") >"$WORK/out" 2>&1 || bad "report from /"
+if grep -q "scenario not read again" "$WORK/out"; then bad "report lost the scenario: $(cat "$WORK/out")"; else ok; fi
 
 # The shipment plan says how close to the best it is proven, not "optimal, gap x%".
 expect_ok "$BIN" supply "$S/good.json" -o "$WORK/o_good"
