@@ -39,6 +39,7 @@ const char cmd_plan_usage[] =
     "  supply_depots.csv    stock on hand, shipped and left per depot\n"
     "  supply_travel.csv    depot -> site times and distances on the vehicle roads\n"
     "  summary.json         all of the above linked, with assumptions, solver status and gap\n"
+    "  report.html, maps/   the HTML report (travel times, catchments, loads) and its maps\n"
     "\n"
     "  --json        print summary.json on stdout instead of the human summary\n"
     "  --quiet       no progress lines and no human summary\n"

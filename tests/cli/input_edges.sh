@@ -66,6 +66,12 @@ case $BIN in /*) abs_bin=$BIN ;; *) abs_bin=$(pwd)/$BIN ;; esac
 (cd / && "$abs_bin" report "$WORK/o_rel") >"$WORK/out" 2>&1 || bad "report from /"
 if grep -q "scenario not read again" "$WORK/out"; then bad "report lost the scenario: $(cat "$WORK/out")"; else ok; fi
 
+# Help lists every file the command writes.
+expect_ok "$BIN" reach --help
+expect_out "groups.csv"
+expect_ok "$BIN" plan --help
+expect_out "report.html"
+
 # The shipment plan says how close to the best it is proven, not "optimal, gap x%".
 expect_ok "$BIN" supply "$S/good.json" -o "$WORK/o_good"
 if grep -q "^trips per depot (.*best possible plan" "$WORK/out" && ! grep -q "optimal, gap" "$WORK/out"; then ok; else bad "trips line: $(grep 'trips per depot' "$WORK/out")"; fi
