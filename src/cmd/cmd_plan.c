@@ -136,6 +136,10 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
     }
     rc = out_mkdir(o->outdir, e);
     if (rc != ERR_OK) goto done;
+    /* Outputs are about to change: drop the old run's summary and report first,
+     * so a failure below leaves no index over a mix of old and new files. */
+    rc = out_forget_run(o->outdir, e);
+    if (rc != ERR_OK) goto done;
     if (in->scen->districts.path != NULL) {
         rc = districts_load(&in->scen->districts, in->grid, &d, e);
         if (rc != ERR_OK) goto done;

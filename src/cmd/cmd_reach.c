@@ -64,6 +64,9 @@ int cmd_reach(const cli_options_t *o, err_t *e)
     summary_time(sum, "nearest_site_pass", res.seconds_nearest);
     summary_time(sum, "capacity_searches", res.seconds_capacity);
 
+    /* From here on files change: first drop the old run's index (see output.h). */
+    rc = out_forget_run(o->outdir, e);
+    if (rc != ERR_OK) goto done;
     progress_start(&pr, "writing outputs");
     rc = reach_write(o->outdir, in, in->existing, d, &res, sum, e);
     summary_time(sum, "write_outputs", progress_end(&pr));

@@ -41,6 +41,26 @@ int out_mkdir(const char *dir, err_t *e)
     return ERR_OK;
 }
 
+int out_forget_run(const char *dir, err_t *e)
+{
+    static const char *const index_files[] = {"summary.json", "report.html"};
+
+    for (size_t i = 0; i < sizeof index_files / sizeof index_files[0]; i++) {
+        char *p = out_join(dir, index_files[i]);
+        if (p == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+        if (unlink(p) != 0 && errno != ENOENT) {
+            int err = errno;
+            int rc = err_set(e, ERR_IO, "cannot remove the previous run's '%s' before writing "
+                             "new outputs: %s; remove it or choose another output folder", p,
+                             strerror(err));
+            free(p);
+            return rc;
+        }
+        free(p);
+    }
+    return ERR_OK;
+}
+
 char *out_join(const char *dir, const char *name)
 {
     size_t a = strlen(dir), b = strlen(name);

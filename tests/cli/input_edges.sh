@@ -66,6 +66,18 @@ case $BIN in /*) abs_bin=$BIN ;; *) abs_bin=$(pwd)/$BIN ;; esac
 (cd / && "$abs_bin" report "$WORK/o_rel") >"$WORK/out" 2>&1 || bad "report from /"
 if grep -q "scenario not read again" "$WORK/out"; then bad "report lost the scenario: $(cat "$WORK/out")"; else ok; fi
 
+# A run that fails half-way into the folder of an earlier run leaves no
+# summary.json or report.html describing a mix of old and new files.
+expect_ok "$BIN" plan "$S/good.json" -o "$WORK/o_mix" --quiet
+rm -f "$WORK/o_mix/sites.csv" && mkdir -p "$WORK/o_mix/sites.csv/x"
+expect_fail 1 "o_mix/sites.csv" "$BIN" plan "$S/good.json" -o "$WORK/o_mix" --quiet
+if [ ! -e "$WORK/o_mix/summary.json" ] && [ ! -e "$WORK/o_mix/report.html" ]; then ok; else bad "a failed plan left the old summary.json or report.html"; fi
+if ls -A "$WORK/o_mix" | grep -q tmp; then bad "temporary files left: $(ls -A "$WORK/o_mix")"; else ok; fi
+expect_ok "$BIN" reach "$F/good.json" -o "$WORK/o_mix2" --quiet
+rm -f "$WORK/o_mix2/bands.csv" && mkdir -p "$WORK/o_mix2/bands.csv/x"
+expect_fail 1 "o_mix2/bands.csv" "$BIN" reach "$F/good.json" -o "$WORK/o_mix2" --quiet
+if [ ! -e "$WORK/o_mix2/summary.json" ]; then ok; else bad "a failed reach left the old summary.json"; fi
+
 # Help lists every file the command writes.
 expect_ok "$BIN" reach --help
 expect_out "groups.csv"
