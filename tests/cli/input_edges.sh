@@ -78,6 +78,18 @@ rm -f "$WORK/o_mix2/bands.csv" && mkdir -p "$WORK/o_mix2/bands.csv/x"
 expect_fail 1 "o_mix2/bands.csv" "$BIN" reach "$F/good.json" -o "$WORK/o_mix2" --quiet
 if [ ! -e "$WORK/o_mix2/summary.json" ]; then ok; else bad "a failed reach left the old summary.json"; fi
 
+# Progress on a terminal (script(1) gives the command one): each stage is named
+# as it starts; in a pipe stderr stays empty; an error on a terminal still
+# reads as one line starting with the command's name.
+if [ -x /usr/bin/script ]; then
+    env -u CI /usr/bin/script -qc "'$abs_bin' reach '$F/good.json' -o '$WORK/o_tty'" /dev/null >"$WORK/tty" 2>&1
+    if grep -q "building travel network" "$WORK/tty"; then ok; else bad "no progress line on a terminal: $(cat -A "$WORK/tty" | head -3)"; fi
+    env -u CI /usr/bin/script -qc "'$abs_bin' check '$F/missing_file.json'" /dev/null >"$WORK/tty" 2>&1
+    if tr '\r' '\n' <"$WORK/tty" | sed 's/\x1b\[K//g' | grep -q "^sitereach check: error: .*nope.tif"; then ok; else bad "error on a terminal: $(cat -A "$WORK/tty")"; fi
+fi
+env -u CI "$BIN" reach "$F/good.json" -o "$WORK/o_pipe" 2>"$WORK/err_pipe" | cat >/dev/null
+if [ ! -s "$WORK/err_pipe" ]; then ok; else bad "stderr in a pipe: $(cat "$WORK/err_pipe")"; fi
+
 # Help lists every file the command writes.
 expect_ok "$BIN" reach --help
 expect_out "groups.csv"
