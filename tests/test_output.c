@@ -200,6 +200,25 @@ int main(void)
         free(p);
         cJSON_Delete(j);
     }
+    /* A folder that cannot be written: the message says what to do. A plain
+     * file stands in for it (permissions do not stop root, who runs CI). */
+    {
+        char *plain = out_join(dir, "plain"), *sub = out_join(plain, "sub");
+        char *p = out_join(plain, "x.csv");
+        out_file_t of;
+        FILE *f;
+        if ((f = fopen(plain, "w")) != NULL) fclose(f);
+        CHECK(out_file_open(&of, p, &e) == ERR_IO);
+        CHECK_STR_HAS(e.msg, "x.csv");
+        CHECK_STR_HAS(e.msg, "choose another output folder");
+        CHECK(out_mkdir(sub, &e) == ERR_IO);
+        CHECK_STR_HAS(e.msg, "plain/sub");
+        CHECK_STR_HAS(e.msg, "choose another output folder");
+        unlink(plain);
+        free(plain);
+        free(sub);
+        free(p);
+    }
     /* An earlier run's index goes before new outputs are written: summary.json
      * and report.html are removed, other files stay, absent ones are fine. */
     {

@@ -28,8 +28,9 @@ int out_mkdir(const char *dir, err_t *e)
             char c = buf[i];
             buf[i] = '\0';
             if (mkdir(buf, 0777) != 0 && errno != EEXIST)
-                return err_set(e, ERR_IO, "cannot create output folder '%s': %s", buf,
-                               strerror(errno));
+                return err_set(e, ERR_IO, "cannot create output folder '%s': %s; check the "
+                               "permissions of the folder above it or choose another output "
+                               "folder", buf, strerror(errno));
             buf[i] = c;
         }
     }
@@ -114,7 +115,8 @@ int out_file_open(out_file_t *of, const char *path, err_t *e)
     if (of->f == NULL) {
         int er = errno;
         out_file_abort(of);
-        return err_set(e, ERR_IO, "cannot write '%s': %s", path, strerror(er));
+        return err_set(e, ERR_IO, "cannot write '%s': %s; check the folder's permissions or "
+                       "choose another output folder", path, strerror(er));
     }
     return ERR_OK;
 }
@@ -186,7 +188,8 @@ static int write_tif(const char *path, const grid_t *g, GDALDataType type, const
     opts = CSLSetNameValue(opts, "BIGTIFF", "IF_SAFER");
     ds = GDALCreate(drv, tmp, g->nx, g->ny, 1, type, opts);
     if (ds == NULL) {
-        rc = err_set(e, ERR_IO, "cannot create '%s': %s", path, CPLGetLastErrorMsg());
+        rc = err_set(e, ERR_IO, "cannot create '%s': %s; check the folder's permissions or "
+                     "choose another output folder", path, CPLGetLastErrorMsg());
         goto done;
     }
     GDALSetGeoTransform(ds, (double *)g->gt);
@@ -276,7 +279,9 @@ static int gpkg_create(const char *tmp, const char *path, const char *layer, con
     if (drv == NULL) return err_set(e, ERR_INTERNAL, "GDAL has no GPKG driver");
     unlink(tmp);
     ds = GDALCreate(drv, tmp, 0, 0, 0, GDT_Unknown, NULL);
-    if (ds == NULL) return err_set(e, ERR_IO, "cannot create '%s': %s", path, CPLGetLastErrorMsg());
+    if (ds == NULL)
+        return err_set(e, ERR_IO, "cannot create '%s': %s; check the folder's permissions or "
+                       "choose another output folder", path, CPLGetLastErrorMsg());
     srs = OSRNewSpatialReference(wkt);
     lay = GDALDatasetCreateLayer(ds, layer, srs, gtype, NULL);
     OSRDestroySpatialReference(srs);
