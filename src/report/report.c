@@ -762,8 +762,10 @@ static int chart_districts(rctx_t *c, const dist_bands_t *d, const render_scale_
     cs.palette = CHARTS_RAMP;
     rc = charts_stacked_bars(path, &cs, NULL, e);
     if (rc == ERR_OK)
-        rc = embed(c, path, "Bar chart of people by travel-time band in each district",
-                   "People by travel-time band in each district.", e);
+        rc = first ? embed(c, path, "Bar chart of people by travel-time band in each district",
+                           "People by travel-time band in each district.", e)
+                   : embed(c, path, "Bar chart of people by travel-time band",
+                           "People by travel-time band (the scenario names no districts).", e);
     free(path);
     return rc;
 }

@@ -65,6 +65,9 @@ case $BIN in /*) abs_bin=$BIN ;; *) abs_bin=$(pwd)/$BIN ;; esac
 (cd "$F" && "$abs_bin" reach good.json -o "$WORK/o_rel" --quiet) || bad "reach from the fixture folder"
 (cd / && "$abs_bin" report "$WORK/o_rel") >"$WORK/out" 2>&1 || bad "report from /"
 if grep -q "scenario not read again" "$WORK/out"; then bad "report lost the scenario: $(cat "$WORK/out")"; else ok; fi
+# Without districts the chart caption does not speak of districts.
+if grep -q "band in each district" "$WORK/o_rel/report.html"; then bad "caption names districts that do not exist"; else ok; fi
+if grep -q "the scenario names no districts" "$WORK/o_rel/report.html"; then ok; else bad "caption without districts"; fi
 
 # A run that fails half-way into the folder of an earlier run leaves no
 # summary.json or report.html describing a mix of old and new files.
