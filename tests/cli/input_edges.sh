@@ -93,6 +93,25 @@ fi
 env -u CI "$BIN" reach "$F/good.json" -o "$WORK/o_pipe" 2>"$WORK/err_pipe" | cat >/dev/null
 if [ ! -s "$WORK/err_pipe" ]; then ok; else bad "stderr in a pipe: $(cat "$WORK/err_pipe")"; fi
 
+# People beyond the limit by district when the limit falls inside a band (200 min
+# with bands 30/60/120): counted cell by cell, not the whole over-120 band. The
+# districts add up to the people GDAL's Python bindings find on cells of
+# travel_time.tif over 200 min or unreachable (-1), weighted by population.tif.
+if [ -f scenarios/demo/scenario.json ]; then
+    D=$(cd scenarios/demo && pwd)
+    edit "$D/scenario.json" "$WORK/lim200.json" "d['coverage']['limit_min'] = 200; d.pop('supply', None); [d['inputs'].__setitem__(k, '$D/' + d['inputs'][k]) for k in ('population', 'landcover', 'elevation', 'barriers')]; [v.__setitem__('path', '$D/' + v['path']) for v in [d['inputs']['roads'], d['inputs']['districts']] + list(d['sites'].values())]"
+    expect_ok "$BIN" reach "$WORK/lim200.json" -o "$WORK/o_lim"
+    got=$(sed -n '/^people beyond 200 min by district:/,/^sites over/p' "$WORK/out" | awk '/ of /{s += $(NF-2)} END {print s}')
+    want=$($PY -c "
+from osgeo import gdal
+import numpy as np
+t = gdal.Open('$WORK/o_lim/travel_time.tif').ReadAsArray()
+p = gdal.Open('$D/population.tif').ReadAsArray().astype(float)
+p[p < 0] = 0
+print(p[(t > 200) | (t == -1)].sum())")
+    check_num "people beyond 200 min over districts" "$got" "$want" 4
+fi
+
 # Help lists every file the command writes.
 expect_ok "$BIN" reach --help
 expect_out "groups.csv"
