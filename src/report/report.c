@@ -936,9 +936,20 @@ static int section_reach(rctx_t *c, const cJSON *r, err_t *e)
         double *key = calloc(db.n_d, sizeof *key);
         size_t *idx = calloc(db.n_d, sizeof *idx);
         if (key && idx) {
-            for (size_t z = 1; z < db.n_d; z++)
+            /* Exact counts when the run recorded them (cell by cell); else the
+             * bands above the limit, which bracket it. */
+            const cJSON *bd = cJSON_GetObjectItemCaseSensitive(r, "beyond_limit_by_district");
+            for (size_t z = 1; z < db.n_d; z++) {
+                const cJSON *v = cJSON_IsObject(bd)
+                                     ? cJSON_GetObjectItemCaseSensitive(bd, db.name[z]) : NULL;
+                if (cJSON_IsNumber(v)) {
+                    key[z] = v->valuedouble;
+                    continue;
+                }
                 for (size_t b = 0; b < db.n_b; b++)
                     if (db.to_min[b] > limit + 1e-9) key[z] += db.people[z * db.n_b + b];
+            }
+            if (cJSON_IsObject(bd)) straddle = 0;
             key[0] = -1;
             order_desc(key, db.n_d, idx);
             snprintf(det, sizeof det, "most in ");

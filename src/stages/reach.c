@@ -322,6 +322,20 @@ done:
     return rc;
 }
 
+/* People beyond the limit (or with no path) per district, cell by cell, into
+ * over[0..d->n] (over[d->n]: outside all districts); the bands only bracket the
+ * limit when it falls inside one. */
+static void beyond_by_district(const inputs_t *in, const districts_t *d,
+                               const reach_result_t *res, double *over)
+{
+    for (size_t z = 0; z <= d->n; z++) over[z] = 0;
+    for (size_t c = 0; c < res->n_cells; c++) {
+        int32_t z = d->cell[c];
+        if (!(res->time_s[c] <= in->scen->limit_s))
+            over[z < 0 ? d->n : (size_t)z] += in->grid->people[c];
+    }
+}
+
 static cJSON *bands_json(const band_table_t *b, const districts_t *d)
 {
     cJSON *o = cJSON_CreateObject(), *all = cJSON_AddArrayToObject(o, "all");
@@ -405,6 +419,21 @@ int reach_write(const char *outdir, const inputs_t *in, const points_t *sites,
     cJSON_AddNumberToObject(rj, "people_unreachable",
                             coverage_band_total(&res->bands, res->bands.n_bands + 1));
     cJSON_AddItemToObject(rj, "bands", bands_json(&res->bands, districts));
+    if (districts != NULL) {
+        double *over = calloc(districts->n + 1, sizeof *over);
+        if (over == NULL) {
+            rc = err_set(e, ERR_NOMEM, "out of memory for people beyond the limit by district");
+            goto done;
+        }
+        beyond_by_district(in, districts, res, over);
+        {
+            cJSON *bd = cJSON_AddObjectToObject(rj, "beyond_limit_by_district");
+            for (size_t z = 0; z <= districts->n; z++)
+                cJSON_AddNumberToObject(bd, z < districts->n ? districts->name[z]
+                                                             : "(outside districts)", over[z]);
+        }
+        free(over);
+    }
     if (res->n_groups > 0) {
         cJSON *gj = cJSON_AddObjectToObject(rj, "groups");
         for (size_t k = 0; k < res->n_groups; k++)
@@ -459,12 +488,7 @@ void reach_print(const inputs_t *in, const points_t *sites, const districts_t *d
          * inside a band (45 min with bands 30/60) would count the whole band. */
         double *over = calloc(districts->n + 1, sizeof *over);
         printf("people beyond %g min by district:\n", in->scen->limit_s / 60.0);
-        if (over != NULL)
-            for (size_t c = 0; c < res->n_cells; c++) {
-                int32_t z = districts->cell[c];
-                if (!(res->time_s[c] <= in->scen->limit_s))
-                    over[z < 0 ? districts->n : (size_t)z] += in->grid->people[c];
-            }
+        if (over != NULL) beyond_by_district(in, districts, res, over);
         for (size_t z = 0; z <= districts->n; z++) {
             double beyond = 0, all = 0;
             for (size_t col = 0; col < BAND_COLS(b); col++) {

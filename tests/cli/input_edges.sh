@@ -110,6 +110,25 @@ p = gdal.Open('$D/population.tif').ReadAsArray().astype(float)
 p[p < 0] = 0
 print(p[(t > 200) | (t == -1)].sum())")
     check_num "people beyond 200 min over districts" "$got" "$want" 4
+    # summary.json has them per district: against GDAL's RasterizeLayer of the
+    # ward polygons (cell centres, as GDAL burns by default) over the same cells.
+    if $PY -c "
+from osgeo import gdal, ogr
+import json
+pds = gdal.Open('$D/population.tif'); p = pds.ReadAsArray().astype(float); p[p < 0] = 0
+t = gdal.Open('$WORK/o_lim/travel_time.tif').ReadAsArray()
+m = gdal.GetDriverByName('MEM').Create('', pds.RasterXSize, pds.RasterYSize, 1, gdal.GDT_Int32)
+m.SetGeoTransform(pds.GetGeoTransform()); m.SetProjection(pds.GetProjection()); m.GetRasterBand(1).Fill(-1)
+ds = ogr.Open('$D/districts.gpkg'); sql = ds.ExecuteSQL('select fid + 0 as idx, name, geom from districts')
+names = {f.GetField('idx'): f.GetField('name') for f in sql}; sql.ResetReading()
+gdal.RasterizeLayer(m, [1], sql, options=['ATTRIBUTE=idx'])
+z = m.GetRasterBand(1).ReadAsArray(); over = (t > 200) | (t == -1)
+got = json.load(open('$WORK/o_lim/summary.json'))['reach']['beyond_limit_by_district']
+assert all(abs(p[over & (z == i)].sum() - got[n]) < 0.5 for i, n in names.items()), (got, names)
+"; then ok; else bad "beyond_limit_by_district against GDAL"; fi
+    # The report's key figure uses them, without the bands caveat.
+    expect_ok "$BIN" report "$WORK/o_lim" --quiet
+    if grep -q "district counts include the band holding the limit" "$WORK/o_lim/report.html"; then bad "report still brackets districts by bands"; else ok; fi
 fi
 
 # Help lists every file the command writes.
