@@ -228,6 +228,19 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
         st->time_s[i] = ok ? (o + b) / 2 : INFINITY;
         st->dist_m[i] = ok ? (st->travel.out_m[i] + st->travel.back_m[i]) / 2 : 0;
     }
+    {
+        /* "More than N m from a road" misleads when no road takes vehicles at all. */
+        int any_open = 0;
+        if (in->roads != NULL)
+            for (size_t k = 0; k < in->roads->n_classes; k++)
+                if (in->roads->classes[k].n_features > 0 && in->roads->classes[k].vehicle_mps > 0)
+                    any_open = 1;
+        if (!any_open)
+            warn_add(&st->warnings, "no road is open to vehicles (%s), so nothing can be "
+                     "trucked; give inputs.roads, or vehicle_kmh above 0 in travel.road_speeds",
+                     in->roads == NULL ? "the scenario has no roads"
+                                       : "every road class has vehicle speed 0");
+    }
     for (size_t a = 0; a < D; a++)
         if (st->travel.from_seg[a] < 0)
             warn_add(&st->warnings, "depot '%s' is more than %g m from any road open to "

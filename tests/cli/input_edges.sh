@@ -131,6 +131,11 @@ assert all(abs(p[over & (z == i)].sum() - got[n]) < 0.5 for i, n in names.items(
     if grep -q "district counts include the band holding the limit" "$WORK/o_lim/report.html"; then bad "report still brackets districts by bands"; else ok; fi
 fi
 
+# Every road closed to vehicles: the supply warnings say so, not only "too far".
+edit "$S/good.json" "$S/closed.json" 'd.setdefault("travel", {})["road_speeds"] = {"primary": {"walk_kmh": 5, "vehicle_kmh": 0}}; d["travel"]["unknown_class"] = {"walk_kmh": 4, "vehicle_kmh": 0}'
+expect_ok "$BIN" supply "$S/closed.json" -o "$WORK/o_closed"
+expect_out "no road is open to vehicles (every road class has vehicle speed 0)"
+
 # Help lists every file the command writes.
 expect_ok "$BIN" reach --help
 expect_out "groups.csv"
