@@ -164,6 +164,20 @@ int inputs_load(const char *scenario_path, int quiet, inputs_t **out, err_t *e)
         rc = road_islands(in, e);
         if (rc != ERR_OK) goto done;
     }
+    if (in->scen->mode == SCEN_MODE_VEHICLE) {
+        /* Vehicle mode drives roads only; without any open to vehicles everyone
+         * walks, and the outputs would still say "by vehicle". */
+        int any_open = 0;
+        if (in->roads != NULL)
+            for (size_t k = 0; k < in->roads->n_classes; k++)
+                if (in->roads->classes[k].n_features > 0 && in->roads->classes[k].vehicle_mps > 0)
+                    any_open = 1;
+        if (!any_open)
+            warn_add(&in->warnings, "travel.mode is \"vehicle\" but %s, so all travel is on "
+                     "foot at the walking speed; give inputs.roads with vehicle speeds, or use "
+                     "\"walk\"", in->roads == NULL ? "the scenario has no roads"
+                                                   : "no road class is open to vehicles");
+    }
     rc = load_points(&in->scen->existing, "existing sites", in->grid, &in->existing, e);
     if (rc == ERR_OK)
         rc = load_points(&in->scen->candidates, "candidate sites", in->grid, &in->candidates, e);

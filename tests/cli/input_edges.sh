@@ -136,6 +136,11 @@ edit "$S/good.json" "$S/closed.json" 'd.setdefault("travel", {})["road_speeds"] 
 expect_ok "$BIN" supply "$S/closed.json" -o "$WORK/o_closed"
 expect_out "no road is open to vehicles (every road class has vehicle speed 0)"
 
+# Vehicle mode without roads: a warning, since everyone would walk.
+edit "$F/good.json" "$F/vehicle_noroads.json" 'd["travel"]["mode"] = "vehicle"; del d["inputs"]["roads"]'
+expect_ok "$BIN" check "$F/vehicle_noroads.json"
+expect_out 'travel.mode is "vehicle" but the scenario has no roads'
+
 # Help lists every file the command writes.
 expect_ok "$BIN" reach --help
 expect_out "groups.csv"
