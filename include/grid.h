@@ -38,6 +38,11 @@ typedef struct grid {
     size_t n_nan;          /* cells that were NaN where NaN is not the declared nodata */
     size_t n_populated;    /* cells with people > 0 */
     double people_on_barrier; /* persons living on barrier cells */
+    /* Cells of the grid an optional layer left without a value (its nodata, or
+     * beyond its extent): land cover then takes travel.landcover_default,
+     * elevation gives no slope (flat walking), a barrier raster lets people pass.
+     * 0 when the layer is absent. Callers warn so a half-covering layer is seen. */
+    size_t n_landcover_missing, n_elevation_missing, n_barrier_missing;
     double min_dx_m, max_dx_m, min_dy_m, max_dy_m; /* cell size range */
     /* Projected grids only: the largest relative difference, sampled over the grid,
      * between the planar cell width/height and the ground distance on the ellipsoid

@@ -16,6 +16,11 @@
 
 /* Create folder 'dir' (and parents) if missing. */
 int out_mkdir(const char *dir, err_t *e);
+/* Remove the index of an earlier run in 'dir' (summary.json, report.html; absent is
+ * fine) before a command writes new outputs there, so that a run failing half-way
+ * leaves no summary or report describing a mix of old and new files. ERR_IO names
+ * the file it could not remove. */
+int out_forget_run(const char *dir, err_t *e);
 /* "dir/name" into a new string; caller frees. NULL when out of memory. */
 char *out_join(const char *dir, const char *name);
 

@@ -1,6 +1,8 @@
-/* progress: one progress line per long stage on a terminal ("stage  45%  3.2 s"),
- * shown only once a stage has run for about a second, and silent when stderr is
- * not a terminal, in CI, or with --quiet. State travels in a progress_t. */
+/* progress: one progress line per stage on a terminal: the stage name as it
+ * starts ("stage ..."), a percentage once it has run for about a second when the
+ * stage reports one ("stage  45%  3.2 s"), and "stage done 3.2 s" at its end if
+ * it took a second or more (shorter stages erase their line). Silent when
+ * stderr is not a terminal, in CI, or with --quiet. State travels in a progress_t. */
 #ifndef PROGRESS_H
 #define PROGRESS_H
 

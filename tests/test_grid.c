@@ -533,6 +533,8 @@ static void test_landcover(void)
         CHECK(g->landcover[2] == INT32_MIN); /* fine (2,0) in coarse (2,0): nodata */
         CHECK(g->landcover[23] == 17);       /* fine (5,3) in coarse (3,1) */
     }
+    /* Coarse (2,0) is nodata: fine cols 2-3 of rows 0-1 have no class (by hand). */
+    CHECK(g->n_landcover_missing == 4);
 
     for (int i = 0; i < 24; i++) vs[i] = 100 + i;
     vs[7] = 255;
@@ -542,6 +544,7 @@ static void test_landcover(void)
         CHECK(g->landcover[0] == 100 && g->landcover[23] == 123);
         CHECK(g->landcover[7] == INT32_MIN);
     }
+    CHECK(g->n_landcover_missing == 1);
     /* A land cover that lies elsewhere entirely: error, and the old layer is kept. */
     {
         const double far[6] = {100000, 100, 0, 8000000, 0, -100};
@@ -637,6 +640,8 @@ static void test_elevation(void)
             }
         CHECK_NEAR(worst, 0, 1e-4);
     }
+    /* It reaches past every edge, so no cell goes without a height. */
+    CHECK(g->n_elevation_missing == 0);
     /* Same grid: nodata -> NAN, values as stored. */
     for (int i = 0; i < 24; i++) vs[i] = 1000 + i;
     vs[5] = -9999;
@@ -646,6 +651,9 @@ static void test_elevation(void)
         CHECK(isnan(g->elevation[5]));
         CHECK(g->elevation[6] == 1006.0f);
     }
+    /* The one nodata cell is counted, so the caller can say slope is off there. */
+    CHECK(g->n_elevation_missing == 1);
+    CHECK(g->n_landcover_missing == 0 && g->n_barrier_missing == 0);
     CHECK(make_tif(tpath("dem_nocrs.tif"), 6, 4, gt_s, NULL, GDT_Float32, vs, 0, 0));
     CHECK(grid_load_elevation(g, tpath("dem_nocrs.tif"), &e) == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "elevation raster");

@@ -115,6 +115,21 @@ static void test_syntax(void)
               "remove the comma");
     /* cJSON 1.7.15 alone accepts a raw line break inside a string. */
     syntax_at("{\n  \"name\": \"Low\n moor\"\n}\n", 2, 15, "control character");
+    /* Not UTF-8 inside a string (RFC 8259 section 8.1 asks for UTF-8): a Latin-1
+     * byte, a lone continuation byte, an overlong '/', an encoded surrogate. The
+     * column counts characters, so the bad byte's column is found by hand. */
+    syntax_at("{\"name\": \"Caf\xe9\"}", 1, 14, "not UTF-8");
+    syntax_at("{\"name\": \"a\x80\"}", 1, 12, "not UTF-8");
+    syntax_at("{\"name\": \"\xc0\xaf\"}", 1, 11, "not UTF-8");
+    syntax_at("{\"name\": \"\xed\xa0\x80\"}", 1, 11, "not UTF-8");
+    /* Well-formed multi-byte characters still pass: é, €, U+1F600. */
+    {
+        cJSON *j8 = NULL;
+        err_t e8 = {0};
+        CHECK(jsonv_parse("{\"a\": \"\xc3\xa9 \xe2\x82\xac \xf0\x9f\x98\x80\"}", "t.json",
+                          &j8, &e8) == ERR_OK);
+        cJSON_Delete(j8);
+    }
     syntax_at("{\"a\": 1}\n\n  {\"b\": 2}\n", 3, 3, "after the end of the JSON value");
     syntax_at("{\n  \"a\" 1\n}", 2, 7, "expected ':'");
     syntax_at("{\n  \"a\": [1, 2, tru]\n}", 2, 15, "expected a value");

@@ -200,6 +200,48 @@ int main(void)
         free(p);
         cJSON_Delete(j);
     }
+    /* A folder that cannot be written: the message says what to do. A plain
+     * file stands in for it (permissions do not stop root, who runs CI). */
+    {
+        char *plain = out_join(dir, "plain"), *sub = out_join(plain, "sub");
+        char *p = out_join(plain, "x.csv");
+        out_file_t of;
+        FILE *f;
+        if ((f = fopen(plain, "w")) != NULL) fclose(f);
+        CHECK(out_file_open(&of, p, &e) == ERR_IO);
+        CHECK_STR_HAS(e.msg, "x.csv");
+        CHECK_STR_HAS(e.msg, "choose another output folder");
+        CHECK(out_mkdir(sub, &e) == ERR_IO);
+        CHECK_STR_HAS(e.msg, "plain/sub");
+        CHECK_STR_HAS(e.msg, "choose another output folder");
+        unlink(plain);
+        free(plain);
+        free(sub);
+        free(p);
+    }
+    /* An earlier run's index goes before new outputs are written: summary.json
+     * and report.html are removed, other files stay, absent ones are fine. */
+    {
+        char *s = out_join(dir, "summary.json"), *r = out_join(dir, "report.html");
+        char *k = out_join(dir, "bands.csv");
+        FILE *f;
+        if ((f = fopen(s, "w")) != NULL) fclose(f);
+        if ((f = fopen(k, "w")) != NULL) fclose(f);
+        CHECK(exists(s) && exists(k) && !exists(r));
+        CHECK(out_forget_run(dir, &e) == ERR_OK);
+        CHECK(!exists(s) && !exists(r) && exists(k));
+        CHECK(out_forget_run(dir, &e) == ERR_OK);
+        /* One that cannot be removed (a folder in its place) is named. */
+        CHECK(mkdir(r, 0700) == 0);
+        CHECK(out_forget_run(dir, &e) == ERR_IO);
+        CHECK_STR_HAS(e.msg, "report.html");
+        CHECK_STR_HAS(e.msg, "choose another output folder");
+        rmdir(r);
+        unlink(k);
+        free(s);
+        free(r);
+        free(k);
+    }
     {
         char *a = out_join(dir, "a/b"), *b = out_join(dir, "a");
         rmdir(a);

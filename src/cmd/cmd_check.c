@@ -27,10 +27,12 @@ static void print_points(const cJSON *pts)
 {
     const cJSON *p;
     cJSON_ArrayForEach(p, pts) {
-        printf("  %-22s %5d points, farthest %.0f m from a road\n",
-               cJSON_GetObjectItem(p, "layer")->valuestring,
-               cJSON_GetObjectItem(p, "count")->valueint,
-               cJSON_GetObjectItem(p, "max_road_distance_m")->valuedouble);
+        const cJSON *d = cJSON_GetObjectItem(p, "max_road_distance_m");
+        int n = cJSON_GetObjectItem(p, "count")->valueint;
+        printf("  %-22s %5d points", cJSON_GetObjectItem(p, "layer")->valuestring, n);
+        /* No distance to claim without points or without roads. */
+        if (cJSON_IsNumber(d)) printf(", farthest %.0f m from a road\n", d->valuedouble);
+        else printf(n == 0 ? "\n" : ", no roads to measure from\n");
     }
 }
 

@@ -40,6 +40,7 @@ const char cmd_plan_usage[] =
     "  supply_depots.csv    stock on hand, shipped and left per depot\n"
     "  supply_travel.csv    depot -> site times and distances on the vehicle roads\n"
     "  summary.json         all of the above linked, with assumptions, solver status and gap\n"
+    "  report.html, maps/   the HTML report (travel times, catchments, loads) and its maps\n"
     "\n"
     "  --json        print summary.json on stdout instead of the human summary\n"
     "  --quiet       no progress lines and no human summary\n"
@@ -231,6 +232,10 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
         goto done;
     }
     rc = out_mkdir(o->outdir, e);
+    if (rc != ERR_OK) goto done;
+    /* Outputs are about to change: drop the old run's summary and report first,
+     * so a failure below leaves no index over a mix of old and new files. */
+    rc = out_forget_run(o->outdir, e);
     if (rc != ERR_OK) goto done;
     if (in->scen->districts.path != NULL) {
         rc = districts_load(&in->scen->districts, in->grid, &d, e);

@@ -21,6 +21,7 @@ const char cmd_reach_usage[] =
     "  sites.csv          per site: people, capacity, load, people beyond the limit, times\n"
     "  bands.csv          people by time band, overall and per district\n"
     "  catchments.gpkg    one polygon per site with its figures\n"
+    "  groups.csv         people by time band per population group (with population_groups)\n"
     "  summary.json       inputs with checksums, parameters, counts and timings\n"
     "\n"
     "  --json        print summary.json on stdout instead of the human summary\n"

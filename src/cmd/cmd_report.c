@@ -17,8 +17,8 @@ const char cmd_report_usage[] =
     "beyond the limit, worst districts, sites over capacity), then maps, charts,\n"
     "tables, assumptions and the caution. The page is self-contained (images are\n"
     "embedded), reads on a phone and prints on A4. The maps are also written as\n"
-    "PNG files into OUTDIR/maps/. Run it from the folder the command ran in, so\n"
-    "the input paths recorded in summary.json resolve.\n"
+    "PNG files into OUTDIR/maps/. The inputs are read again where summary.json\n"
+    "recorded them (absolute paths), so they must not have moved since the run.\n"
     "\n"
     "  --json     print {\"report\": PATH, \"images\": [...], \"notes\": [...]} on stdout\n"
     "  --quiet    print nothing on success\n";

@@ -94,6 +94,9 @@ int cmd_site(const cli_options_t *o, err_t *e)
     }
     rc = out_mkdir(o->outdir, e);
     if (rc != ERR_OK) goto done;
+    /* Files are about to change: drop the old run's index first (see output.h). */
+    rc = out_forget_run(o->outdir, e);
+    if (rc != ERR_OK) goto done;
     {
         const scen_t *s = in != NULL ? in->scen : scen;
         rc = site_run(s, &d, o->quiet, &r, e);

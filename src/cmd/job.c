@@ -21,6 +21,8 @@ int cli_job_open(const cli_options_t *o, const char *command,
     rc = inputs_load(o->scenario, o->quiet, &j->in, e);
     if (rc == ERR_OK && check != NULL) rc = check(o, j->in, e);
     if (rc == ERR_OK) rc = out_mkdir(o->outdir, e);
+    /* Files are about to change: drop the old run's index first (see output.h). */
+    if (rc == ERR_OK) rc = out_forget_run(o->outdir, e);
     if (rc == ERR_OK && j->in->scen->districts.path != NULL)
         rc = districts_load(&j->in->scen->districts, j->in->grid, &j->districts, e);
     if (rc == ERR_OK) rc = summary_new(command, j->in, &j->summary, e);

@@ -28,6 +28,14 @@ void progress_start(progress_t *p, const char *stage)
     p->t0 = progress_now();
     p->last_draw = 0;
     p->drawn = 0;
+    /* Name the stage at once: most stages never call progress_update, and a
+     * long one (building the network, the nearest-site pass) would otherwise
+     * leave the terminal silent. progress_end clears it again if it was short. */
+    if (p->enabled && stage != NULL) {
+        fprintf(stderr, "\r%-28s ...", stage);
+        fflush(stderr);
+        p->drawn = 1;
+    }
 }
 
 void progress_update(progress_t *p, double done, double total)
@@ -49,7 +57,9 @@ double progress_end(progress_t *p)
 {
     double el = progress_now() - p->t0;
     if (p->enabled && p->drawn) {
-        fprintf(stderr, "\r%-28s done    %6.1f s\n", p->stage, el);
+        /* Stages under a second leave no line behind (ANSI erase to end of line). */
+        if (el >= 1.0) fprintf(stderr, "\r%-28s done    %6.1f s\n", p->stage, el);
+        else fprintf(stderr, "\r\033[K");
         fflush(stderr);
     }
     p->stage = NULL;

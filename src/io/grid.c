@@ -696,11 +696,14 @@ static int load_layer(grid_t *g, const char *path, layer_kind_t kind, err_t *e)
         free(g->landcover);
         g->landcover = lc;
         lc = NULL;
+        g->n_landcover_missing = ncell - n_valid;
     } else if (kind == LAYER_ELEVATION) {
         free(g->elevation);
         g->elevation = el;
         el = NULL;
+        g->n_elevation_missing = ncell - n_valid;
     } else {
+        g->n_barrier_missing = ncell - n_valid;
         ksum_t on = {0.0, 0.0};
         free(g->barrier);
         g->barrier = ba;

@@ -3,8 +3,10 @@
 
 #include <math.h>
 #include <stdlib.h>
+#include <string.h>
 
 #include "progress.h"
+#include "scen_supply.h"
 
 static int load_points(const scen_layer_t *l, const char *what, const grid_t *g,
                        points_t **out, err_t *e)
@@ -12,6 +14,39 @@ static int load_points(const scen_layer_t *l, const char *what, const grid_t *g,
     *out = NULL;
     if (l->path == NULL) return ERR_OK;
     return points_load(l, what, g, out, e);
+}
+
+/* The supply section's depot ids against the depots layer, so that 'check'
+ * refuses what 'supply' and 'plan' would refuse, before anything is written. */
+static int supply_depots(const inputs_t *in, err_t *e)
+{
+    const scen_t *s = in->scen;
+    const struct scen_supply *x = s->supply;
+
+    if (x == NULL) return ERR_OK;
+    if (in->depots == NULL || in->depots->n == 0)
+        return err_set(e, ERR_INPUT, "%s: supply needs depots, but %s; give a point "
+                       "layer of depots in sites.depots", s->file,
+                       in->depots == NULL ? "sites.depots is not given"
+                                          : "the sites.depots layer has no points");
+    for (size_t i = 0; i < x->n_depots; i++) {
+        size_t d = 0;
+        while (d < in->depots->n && strcmp(in->depots->id[d], x->depots[i].depot_id) != 0) d++;
+        if (d == in->depots->n)
+            return err_set(e, ERR_INPUT, "%s: supply.depot_stock names depot '%s', which is not "
+                           "in sites.depots ('%s', %zu depots, first id '%s'); use an id of "
+                           "that layer", s->file, x->depots[i].depot_id, s->depots.path,
+                           in->depots->n, in->depots->id[0]);
+    }
+    return ERR_OK;
+}
+
+/* A layer the scenario names but that holds nothing is worth a word. */
+static void warn_empty(inputs_t *in, const points_t *p, const scen_layer_t *l, const char *what)
+{
+    if (p != NULL && p->n == 0)
+        warn_add(&in->warnings, "%s layer%s%s%s in '%s' has no points", what,
+                 l->layer ? " '" : "", l->layer ? l->layer : "", l->layer ? "'" : "", l->path);
 }
 
 /* Road components apart from the largest are islands: the people in the cells
@@ -102,6 +137,26 @@ int inputs_load(const char *scenario_path, int quiet, inputs_t **out, err_t *e)
         warn_add(&in->warnings,
                  "the grid's CRS '%s' distorts distances by up to %.0f%% here, so travel times will be off by as much; reproject the inputs to a local UTM zone with gdalwarp",
                  in->grid->crs_name, 100.0 * in->grid->scale_error);
+    /* Optional rasters that leave cells without a value (nodata, or not reaching
+     * that far) change travel there quietly otherwise. */
+    if (in->grid->n_landcover_missing > 0)
+        warn_add(&in->warnings,
+                 "land-cover raster '%s' gives no class for %zu of %zu grid cells (nodata or "
+                 "beyond its extent); they use travel.landcover_default (%g)",
+                 in->scen->landcover, in->grid->n_landcover_missing,
+                 (size_t)in->grid->nx * (size_t)in->grid->ny, in->scen->cover_default_factor);
+    if (in->grid->n_elevation_missing > 0 && in->scen->use_slope)
+        warn_add(&in->warnings,
+                 "elevation raster '%s' gives no height for %zu of %zu grid cells (nodata or "
+                 "beyond its extent); walking there ignores slope",
+                 in->scen->elevation, in->grid->n_elevation_missing,
+                 (size_t)in->grid->nx * (size_t)in->grid->ny);
+    if (in->grid->n_barrier_missing > 0)
+        warn_add(&in->warnings,
+                 "barrier raster '%s' gives no value for %zu of %zu grid cells (nodata or "
+                 "beyond its extent); they are passable",
+                 in->scen->barriers, in->grid->n_barrier_missing,
+                 (size_t)in->grid->nx * (size_t)in->grid->ny);
     if (in->grid->total_people <= 0)
         warn_add(&in->warnings, "population grid '%s' holds no people", in->scen->population);
     if (in->grid->people_on_barrier > 0)
@@ -116,11 +171,29 @@ int inputs_load(const char *scenario_path, int quiet, inputs_t **out, err_t *e)
         rc = road_islands(in, e);
         if (rc != ERR_OK) goto done;
     }
+    if (in->scen->mode == SCEN_MODE_VEHICLE) {
+        /* Vehicle mode drives roads only; without any open to vehicles everyone
+         * walks, and the outputs would still say "by vehicle". */
+        int any_open = 0;
+        if (in->roads != NULL)
+            for (size_t k = 0; k < in->roads->n_classes; k++)
+                if (in->roads->classes[k].n_features > 0 && in->roads->classes[k].vehicle_mps > 0)
+                    any_open = 1;
+        if (!any_open)
+            warn_add(&in->warnings, "travel.mode is \"vehicle\" but %s, so all travel is on "
+                     "foot at the walking speed; give inputs.roads with vehicle speeds, or use "
+                     "\"walk\"", in->roads == NULL ? "the scenario has no roads"
+                                                   : "no road class is open to vehicles");
+    }
     rc = load_points(&in->scen->existing, "existing sites", in->grid, &in->existing, e);
     if (rc == ERR_OK)
         rc = load_points(&in->scen->candidates, "candidate sites", in->grid, &in->candidates, e);
     if (rc == ERR_OK) rc = load_points(&in->scen->depots, "depots", in->grid, &in->depots, e);
+    if (rc == ERR_OK) rc = supply_depots(in, e);
     if (rc != ERR_OK) goto done;
+    warn_empty(in, in->existing, &in->scen->existing, "existing sites");
+    warn_empty(in, in->candidates, &in->scen->candidates, "candidate sites");
+    warn_empty(in, in->depots, &in->scen->depots, "depots");
     in->seconds = progress_now() - t0;
     *out = in;
     in = NULL;
@@ -184,7 +257,11 @@ static cJSON *points_json(const inputs_t *in, const points_t *p, const char *wha
     }
     cJSON_AddStringToObject(o, "layer", what);
     cJSON_AddNumberToObject(o, "count", (double)p->n);
-    cJSON_AddNumberToObject(o, "max_road_distance_m", worst);
+    /* null when there is nothing to measure: no points, or no roads to measure to */
+    if (p->n == 0 || in->roads == NULL || in->roads->n_segs == 0)
+        cJSON_AddNullToObject(o, "max_road_distance_m");
+    else
+        cJSON_AddNumberToObject(o, "max_road_distance_m", worst);
     return o;
 }
 

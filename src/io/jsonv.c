@@ -55,6 +55,29 @@ static int hex4(const char *s, unsigned long *u)
     return 0;
 }
 
+/* Length of the well-formed UTF-8 sequence at 's' (RFC 3629: no overlong
+ * forms, no surrogates, nothing above U+10FFFF), or 0 when it is not one. */
+static size_t utf8_len(const unsigned char *s)
+{
+    unsigned char c = s[0];
+    size_t n;
+    unsigned long u;
+
+    if (c < 0x80) return 1;
+    if (c >= 0xC2 && c <= 0xDF) n = 2, u = c & 0x1Fu;
+    else if (c >= 0xE0 && c <= 0xEF) n = 3, u = c & 0x0Fu;
+    else if (c >= 0xF0 && c <= 0xF4) n = 4, u = c & 0x07u;
+    else return 0;
+    for (size_t k = 1; k < n; k++) {
+        if ((s[k] & 0xC0) != 0x80) return 0;
+        u = (u << 6) | (s[k] & 0x3Fu);
+    }
+    if ((n == 3 && u < 0x800) || (n == 4 && (u < 0x10000 || u > 0x10FFFF)) ||
+        (u >= 0xD800 && u <= 0xDFFF))
+        return 0;
+    return n;
+}
+
 static int lex_string(lex_t *l)
 {
     size_t start = l->pos;
@@ -96,6 +119,15 @@ static int lex_string(lex_t *l)
                 return lex_fail(l, l->pos, "invalid escape in a string (in paths write '/' "
                                            "or '\\\\' instead of '\\')");
             l->pos += 2;
+            continue;
+        }
+        if (c >= 0x80) {
+            /* Bad bytes would reach summary.json and the HTML report as they are. */
+            size_t n = utf8_len((const unsigned char *)l->s + l->pos);
+            if (n == 0)
+                return lex_fail(l, l->pos, "bytes that are not UTF-8 inside a string (save "
+                                           "the file as UTF-8)");
+            l->pos += n;
             continue;
         }
         l->pos++;

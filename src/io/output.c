@@ -28,8 +28,9 @@ int out_mkdir(const char *dir, err_t *e)
             char c = buf[i];
             buf[i] = '\0';
             if (mkdir(buf, 0777) != 0 && errno != EEXIST)
-                return err_set(e, ERR_IO, "cannot create output folder '%s': %s", buf,
-                               strerror(errno));
+                return err_set(e, ERR_IO, "cannot create output folder '%s': %s; check the "
+                               "permissions of the folder above it or choose another output "
+                               "folder", buf, strerror(errno));
             buf[i] = c;
         }
     }
@@ -37,6 +38,26 @@ int out_mkdir(const char *dir, err_t *e)
         struct stat st;
         if (stat(dir, &st) != 0 || !S_ISDIR(st.st_mode))
             return err_set(e, ERR_IO, "output path '%s' exists and is not a folder", dir);
+    }
+    return ERR_OK;
+}
+
+int out_forget_run(const char *dir, err_t *e)
+{
+    static const char *const index_files[] = {"summary.json", "report.html"};
+
+    for (size_t i = 0; i < sizeof index_files / sizeof index_files[0]; i++) {
+        char *p = out_join(dir, index_files[i]);
+        if (p == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+        if (unlink(p) != 0 && errno != ENOENT) {
+            int err = errno;
+            int rc = err_set(e, ERR_IO, "cannot remove the previous run's '%s' before writing "
+                             "new outputs: %s; remove it or choose another output folder", p,
+                             strerror(err));
+            free(p);
+            return rc;
+        }
+        free(p);
     }
     return ERR_OK;
 }
@@ -94,7 +115,8 @@ int out_file_open(out_file_t *of, const char *path, err_t *e)
     if (of->f == NULL) {
         int er = errno;
         out_file_abort(of);
-        return err_set(e, ERR_IO, "cannot write '%s': %s", path, strerror(er));
+        return err_set(e, ERR_IO, "cannot write '%s': %s; check the folder's permissions or "
+                       "choose another output folder", path, strerror(er));
     }
     return ERR_OK;
 }
@@ -166,7 +188,8 @@ static int write_tif(const char *path, const grid_t *g, GDALDataType type, const
     opts = CSLSetNameValue(opts, "BIGTIFF", "IF_SAFER");
     ds = GDALCreate(drv, tmp, g->nx, g->ny, 1, type, opts);
     if (ds == NULL) {
-        rc = err_set(e, ERR_IO, "cannot create '%s': %s", path, CPLGetLastErrorMsg());
+        rc = err_set(e, ERR_IO, "cannot create '%s': %s; check the folder's permissions or "
+                     "choose another output folder", path, CPLGetLastErrorMsg());
         goto done;
     }
     GDALSetGeoTransform(ds, (double *)g->gt);
@@ -256,7 +279,9 @@ static int gpkg_create(const char *tmp, const char *path, const char *layer, con
     if (drv == NULL) return err_set(e, ERR_INTERNAL, "GDAL has no GPKG driver");
     unlink(tmp);
     ds = GDALCreate(drv, tmp, 0, 0, 0, GDT_Unknown, NULL);
-    if (ds == NULL) return err_set(e, ERR_IO, "cannot create '%s': %s", path, CPLGetLastErrorMsg());
+    if (ds == NULL)
+        return err_set(e, ERR_IO, "cannot create '%s': %s; check the folder's permissions or "
+                       "choose another output folder", path, CPLGetLastErrorMsg());
     srs = OSRNewSpatialReference(wkt);
     lay = GDALDatasetCreateLayer(ds, layer, srs, gtype, NULL);
     OSRDestroySpatialReference(srs);

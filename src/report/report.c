@@ -762,8 +762,10 @@ static int chart_districts(rctx_t *c, const dist_bands_t *d, const render_scale_
     cs.palette = CHARTS_RAMP;
     rc = charts_stacked_bars(path, &cs, NULL, e);
     if (rc == ERR_OK)
-        rc = embed(c, path, "Bar chart of people by travel-time band in each district",
-                   "People by travel-time band in each district.", e);
+        rc = first ? embed(c, path, "Bar chart of people by travel-time band in each district",
+                           "People by travel-time band in each district.", e)
+                   : embed(c, path, "Bar chart of people by travel-time band",
+                           "People by travel-time band (the scenario names no districts).", e);
     free(path);
     return rc;
 }
@@ -934,9 +936,20 @@ static int section_reach(rctx_t *c, const cJSON *r, err_t *e)
         double *key = calloc(db.n_d, sizeof *key);
         size_t *idx = calloc(db.n_d, sizeof *idx);
         if (key && idx) {
-            for (size_t z = 1; z < db.n_d; z++)
+            /* Exact counts when the run recorded them (cell by cell); else the
+             * bands above the limit, which bracket it. */
+            const cJSON *bd = cJSON_GetObjectItemCaseSensitive(r, "beyond_limit_by_district");
+            for (size_t z = 1; z < db.n_d; z++) {
+                const cJSON *v = cJSON_IsObject(bd)
+                                     ? cJSON_GetObjectItemCaseSensitive(bd, db.name[z]) : NULL;
+                if (cJSON_IsNumber(v)) {
+                    key[z] = v->valuedouble;
+                    continue;
+                }
                 for (size_t b = 0; b < db.n_b; b++)
                     if (db.to_min[b] > limit + 1e-9) key[z] += db.people[z * db.n_b + b];
+            }
+            if (cJSON_IsObject(bd)) straddle = 0;
             key[0] = -1;
             order_desc(key, db.n_d, idx);
             snprintf(det, sizeof det, "most in ");
@@ -1251,9 +1264,13 @@ int report_write(const char *outdir, report_result_t *res, err_t *e)
     c.crs = str(grid, "crs") ? str(grid, "crs") : "unknown";
     /* The scenario gives layer and field names for roads and districts; when it
      * cannot be read again the maps fall back to defaults. */
-    if (str(c.sum, "scenario") != NULL) {
+    /* The inputs list holds its absolute path, so the report may run from any
+     * folder; the top-level "scenario" is as typed (older summaries). */
+    if (input_path(c.sum, "scenario") != NULL || str(c.sum, "scenario") != NULL) {
         err_t se = {0};
-        if (scen_load(str(c.sum, "scenario"), &c.scen, &se) != ERR_OK)
+        const char *sp_in = input_path(c.sum, "scenario") ? input_path(c.sum, "scenario")
+                                                          : str(c.sum, "scenario");
+        if (scen_load(sp_in, &c.scen, &se) != ERR_OK)
             note(&c, "scenario not read again (%s); map layers use default layer and field names", se.msg);
     }
     {

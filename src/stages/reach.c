@@ -114,9 +114,15 @@ int reach_run(const inputs_t *in, network_t *net, const points_t *sites,
 
     memset(res, 0, sizeof *res);
     progress_init(&pr, quiet);
-    if (sites == NULL || sites->n == 0)
+    if (sites == NULL || sites->n == 0) {
+        /* An empty layer is not a missing one: say which of the two it is. */
+        if (sites != NULL && sites == in->existing && in->scen->existing.path != NULL)
+            return err_set(e, ERR_INPUT, "scenario '%s': the sites.existing layer in '%s' has "
+                           "no points; give a layer with at least one site",
+                           in->scen->file, in->scen->existing.path);
         return err_set(e, ERR_INPUT, "scenario '%s' names no open sites; give a point layer in sites.existing",
                        in->scen->file);
+    }
     res->n_cells = (size_t)g->nx * (size_t)g->ny;
     res->n_sites = sites->n;
     nodes = malloc(sites->n * sizeof *nodes);
@@ -316,6 +322,20 @@ done:
     return rc;
 }
 
+/* People beyond the limit (or with no path) per district, cell by cell, into
+ * over[0..d->n] (over[d->n]: outside all districts); the bands only bracket the
+ * limit when it falls inside one. */
+static void beyond_by_district(const inputs_t *in, const districts_t *d,
+                               const reach_result_t *res, double *over)
+{
+    for (size_t z = 0; z <= d->n; z++) over[z] = 0;
+    for (size_t c = 0; c < res->n_cells; c++) {
+        int32_t z = d->cell[c];
+        if (!(res->time_s[c] <= in->scen->limit_s))
+            over[z < 0 ? d->n : (size_t)z] += in->grid->people[c];
+    }
+}
+
 static cJSON *bands_json(const band_table_t *b, const districts_t *d)
 {
     cJSON *o = cJSON_CreateObject(), *all = cJSON_AddArrayToObject(o, "all");
@@ -399,6 +419,21 @@ int reach_write(const char *outdir, const inputs_t *in, const points_t *sites,
     cJSON_AddNumberToObject(rj, "people_unreachable",
                             coverage_band_total(&res->bands, res->bands.n_bands + 1));
     cJSON_AddItemToObject(rj, "bands", bands_json(&res->bands, districts));
+    if (districts != NULL) {
+        double *over = calloc(districts->n + 1, sizeof *over);
+        if (over == NULL) {
+            rc = err_set(e, ERR_NOMEM, "out of memory for people beyond the limit by district");
+            goto done;
+        }
+        beyond_by_district(in, districts, res, over);
+        {
+            cJSON *bd = cJSON_AddObjectToObject(rj, "beyond_limit_by_district");
+            for (size_t z = 0; z <= districts->n; z++)
+                cJSON_AddNumberToObject(bd, z < districts->n ? districts->name[z]
+                                                             : "(outside districts)", over[z]);
+        }
+        free(over);
+    }
     if (res->n_groups > 0) {
         cJSON *gj = cJSON_AddObjectToObject(rj, "groups");
         for (size_t k = 0; k < res->n_groups; k++)
@@ -449,17 +484,23 @@ void reach_print(const inputs_t *in, const points_t *sites, const districts_t *d
         printf("  %-16s %12.0f  %5.1f%%\n", label, p, total > 0 ? 100.0 * p / total : 0.0);
     }
     if (districts != NULL) {
+        /* Beyond the limit cell by cell: the bands only bracket it, and a limit
+         * inside a band (45 min with bands 30/60) would count the whole band. */
+        double *over = calloc(districts->n + 1, sizeof *over);
         printf("people beyond %g min by district:\n", in->scen->limit_s / 60.0);
+        if (over != NULL) beyond_by_district(in, districts, res, over);
         for (size_t z = 0; z <= districts->n; z++) {
             double beyond = 0, all = 0;
             for (size_t col = 0; col < BAND_COLS(b); col++) {
                 all += BAND_AT(b, z, col);
                 if (col >= b->n_bands || b->limits_s[col] > in->scen->limit_s) beyond += BAND_AT(b, z, col);
             }
+            if (over != NULL) beyond = over[z];
             if (z == districts->n && all == 0) continue;
             printf("  %-24s %10.0f of %10.0f\n", z < districts->n ? districts->name[z] : "(outside districts)",
                    beyond, all);
         }
+        free(over);
     }
     printf("sites over capacity:");
     {

@@ -228,6 +228,19 @@ int supply_stage_run(const inputs_t *in, const points_t *sites, const double *pe
         st->time_s[i] = ok ? (o + b) / 2 : INFINITY;
         st->dist_m[i] = ok ? (st->travel.out_m[i] + st->travel.back_m[i]) / 2 : 0;
     }
+    {
+        /* "More than N m from a road" misleads when no road takes vehicles at all. */
+        int any_open = 0;
+        if (in->roads != NULL)
+            for (size_t k = 0; k < in->roads->n_classes; k++)
+                if (in->roads->classes[k].n_features > 0 && in->roads->classes[k].vehicle_mps > 0)
+                    any_open = 1;
+        if (!any_open)
+            warn_add(&st->warnings, "no road is open to vehicles (%s), so nothing can be "
+                     "trucked; give inputs.roads, or vehicle_kmh above 0 in travel.road_speeds",
+                     in->roads == NULL ? "the scenario has no roads"
+                                       : "every road class has vehicle speed 0");
+    }
     for (size_t a = 0; a < D; a++)
         if (st->travel.from_seg[a] < 0)
             warn_add(&st->warnings, "depot '%s' is more than %g m from any road open to "
@@ -762,8 +775,18 @@ void supply_stage_print(const inputs_t *in, const points_t *sites, const supply_
                need + 0.0, st->comm[c].unit);
     }
     printf("\n");
-    printf("trips per depot (%s, gap %.2g%%):\n", solver_status_name(st->res.status),
-           isfinite(st->res.gap) ? 100 * st->res.gap : 0.0);
+    /* "optimal" from the solver means proven within the requested gap, not
+     * exactly best: say how close the plan is proven to be. */
+    if (st->res.status == SOLVER_OPTIMAL && (!isfinite(st->res.gap) || st->res.gap <= 0))
+        printf("trips per depot (the best possible plan, proven):\n");
+    else if (st->res.status == SOLVER_OPTIMAL)
+        printf("trips per depot (proven within %.2g%% of the best possible plan):\n",
+               100 * st->res.gap);
+    else if (isfinite(st->res.gap))
+        printf("trips per depot (%s: within %.2g%% of the best possible plan):\n",
+               solver_status_name(st->res.status), 100 * st->res.gap);
+    else
+        printf("trips per depot (%s):\n", solver_status_name(st->res.status));
     for (size_t d = 0; d < st->n_active; d++) {
         double trips = 0, kg = 0, hours = 0;
         size_t n_sites = 0;
