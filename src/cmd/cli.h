@@ -27,6 +27,9 @@ typedef struct cli_command {
 int cli_parse(const cli_command_t *c, int argc, char **argv, cli_options_t *o, int *help,
               err_t *e);
 
+/* Print the version of sitereach and of every library it uses. */
+void cli_print_version(void);
+
 /* Print "sitereach NAME: error: MSG" on stderr; returns the exit status. */
 int cli_fail(const char *cmd, const err_t *e);
 

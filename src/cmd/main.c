@@ -66,8 +66,11 @@ int main(int argc, char **argv)
         return argc < 2 ? EXIT_USAGE : EXIT_OK;
     }
     if (strcmp(argv[1], "--version") == 0) {
-        printf("sitereach %s (igraph %s, GLPK, GDAL %s)\n", SITEREACH_VERSION, IGRAPH_VERSION,
-               GDALVersionInfo("RELEASE_NAME"));
+        if (argc > 2) {
+            fprintf(stderr, "sitereach: error: '--version' takes no argument, got '%s'\n", argv[2]);
+            return EXIT_USAGE;
+        }
+        cli_print_version();
         return EXIT_OK;
     }
     for (size_t i = 0; i < n_commands; i++)

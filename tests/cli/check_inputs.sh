@@ -17,6 +17,15 @@ if $PY -c 'import json,sys; d=json.load(open(sys.argv[1])); assert d["grid"]["pe
 expect_fail 2 "no scenario file given" "$BIN" check
 expect_fail 2 "unknown option '--frobnicate'" "$BIN" check "$F/good.json" --frobnicate
 expect_fail 2 "unknown command 'chek'" "$BIN" chek "$F/good.json"
+expect_fail 2 "writes no output folder" "$BIN" check "$F/good.json" -o "$WORK/x"
+expect_fail 2 "has no option '--threads'" "$BIN" check "$F/good.json" --threads 2
+expect_fail 2 "needs a folder name" "$BIN" reach "$F/good.json" -o ""
+expect_fail 2 "given twice" "$BIN" reach "$F/good.json" -o "$WORK/a" -o "$WORK/b"
+expect_fail 2 "takes no argument" "$BIN" --version extra
+# '--' ends the options: a file name may then start with '-'.
+expect_ok "$BIN" check -- "$F/good.json"
+expect_ok "$BIN" --version
+expect_out "GLPK 5"
 
 # Bad inputs exit 1 with the file, key or feature named.
 expect_fail 1 "nope.tif" "$BIN" check "$F/missing_file.json"
