@@ -325,6 +325,10 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
     if (full) {
         rc = report_write(o->outdir, &report, e);
         if (rc != ERR_OK) goto done;
+        /* Link the report from summary.json too (written again, atomically). */
+        cJSON_AddStringToObject(links, "report", "report.html");
+        rc = out_write_json(path, sum, e);
+        if (rc != ERR_OK) goto done;
     }
 
     if (o->json) {

@@ -28,6 +28,8 @@ check_num "people total" "$(v "$O" 'd["plan"]["people_total"]')" 4000 1e-6
 expect_ok "$BIN" plan "$F/good.json" -o "$WORK/o2" --json
 if $PY -c 'import json,sys; d=json.load(open(sys.argv[1])); assert "plan" in d' "$WORK/out"; then ok; else bad "--json output"; fi
 expect_ok "$BIN" plan "$F/good.json" -o "$WORK/o3" --quiet
+# summary.json links the report plan wrote.
+if [ "$(v "$WORK/o3" 'd["plan"]["sections"]["report"]')" = "report.html" ] && [ -s "$WORK/o3/report.html" ]; then ok; else bad "report not linked"; fi
 if [ -s "$WORK/out" ]; then bad "--quiet printed"; else ok; fi
 
 # Without a supply section the plan stops after reach and says so.
