@@ -297,7 +297,10 @@ static int open_raster(const char *path, GDALDatasetH *ds, err_t *e)
     FILE *f = fopen(path, "rb");
 
     *ds = NULL;
-    if (f == NULL) return err_set(e, ERR_IO, "cannot open raster '%s' for the map: file missing or unreadable", path);
+    if (f == NULL)
+        return err_set(e, ERR_IO, "cannot open raster '%s' for the map: file missing or "
+                       "unreadable; run the command that writes it (reach, plan or compare) "
+                       "into this folder again", path);
     fclose(f);
     CPLErrorReset();
     *ds = GDALOpen(path, GA_ReadOnly);

@@ -152,4 +152,9 @@ comp() {   # comp WORD... : the completions of the last word
 case " $(comp sitereach re) " in *" reach report "*) ok ;; *) bad "completion of 're': $(comp sitereach re)" ;; esac
 case " $(comp sitereach reach x.json --th) " in *" --threads "*) ok ;; *) bad "completion of --th" ;; esac
 case " $(comp sitereach check "$WORK/") " in *"a.json"*) case " $(comp sitereach check "$WORK/") " in *"b.txt"*) bad "completion offers b.txt" ;; *) ok ;; esac ;; *) bad "completion lacks a.json" ;; esac
+# A raster the maps need is missing: one line saying what to do, exit 1.
+if [ -d "$WORK/demo" ]; then
+    cp -r "$WORK/demo" "$WORK/demo_broken" && rm "$WORK/demo_broken/travel_time.tif"
+    expect_fail 1 "run the command that writes it" "$BIN" report "$WORK/demo_broken"
+fi
 finish
