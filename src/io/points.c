@@ -7,6 +7,9 @@
  * on a misplaced or misread site is wrong without saying so. Wraps GDAL/OGR. */
 #include "points.h"
 
+#include <cpl_conv.h>
+#include <cpl_string.h>
+
 #include <errno.h>
 #include <math.h>
 #include <stdio.h>
@@ -223,6 +226,13 @@ int points_load(const scen_layer_t *l, const char *what, const grid_t *g,
             goto done;
         nm[0] = '\0';
         if (a_name.key != NULL) ogr_util_attr_get(&a_name, f, nm, sizeof nm);
+        /* Names end up in JSON and HTML, which must be UTF-8: a layer in another
+         * encoding keeps its ASCII letters and shows '?' for the rest. */
+        if (!CPLIsUTF8(nm, -1)) {
+            char *a = CPLForceToASCII(nm, -1, '?');
+            snprintf(nm, sizeof nm, "%s", a);
+            CPLFree(a);
+        }
         p->id[i] = strdup(id);
         p->name[i] = strdup(nm);
         p->n++;   /* counted now so points_free releases the strings */
