@@ -8,7 +8,7 @@ _sitereach()
     cur=${COMP_WORDS[COMP_CWORD]}
     prev=${COMP_WORDS[COMP_CWORD-1]}
     if [ "$COMP_CWORD" -eq 1 ]; then
-        COMPREPLY=($(compgen -W "check reach report plan supply --help --version" -- "$cur"))
+        COMPREPLY=($(compgen -W "check reach site supply plan compare links report --help --version" -- "$cur"))
         return 0
     fi
     cmd=${COMP_WORDS[1]}
@@ -25,7 +25,7 @@ _sitereach()
     if [[ $cur == -* ]]; then
         case $cmd in
             check)  COMPREPLY=($(compgen -W "--json --quiet --help" -- "$cur")) ;;
-            reach|plan|supply)
+            reach|site|plan|supply|compare|links)
                     COMPREPLY=($(compgen -W "-o --out --json --quiet --threads --help" -- "$cur")) ;;
             report) COMPREPLY=($(compgen -W "--json --quiet --help" -- "$cur")) ;;
         esac
