@@ -70,6 +70,63 @@ PYEOF
     expect_ok "$BIN" report "$WORK/demo" --quiet
     if [ -s "$WORK/out" ]; then bad "report --quiet printed: $(cat "$WORK/out")"; else ok; fi
 
+    # The plan report: site selection and supply sections with their key
+    # figures (from summary.json and the CSVs beside it), maps and charts.
+    expect_ok "$BIN" plan scenarios/demo/scenario.json -o "$WORK/plan" --quiet
+    expect_ok "$BIN" report "$WORK/plan" --json
+    $PY - "$WORK/plan" "$WORK/out" <<'PYEOF' && ok || bad "plan: site and supply sections"
+import json, sys, os, csv, base64, struct
+import xml.etree.ElementTree as ET
+d = sys.argv[1]
+j = json.load(open(sys.argv[2]))
+s = json.load(open(os.path.join(d, "summary.json")))
+text = open(os.path.join(d, "report.html"), encoding="utf-8").read()
+root = ET.fromstring(text.split("\n", 1)[1])
+ns = {"h": "http://www.w3.org/1999/xhtml"}
+alltext = " ".join(root.itertext())
+site = s["site"]
+# people covered before -> after, as shares and as people
+for v in (site["before"]["share"], site["after"]["share"]):
+    assert "%.0f%%" % (100 * v) in alltext, v
+for v in (site["before"]["people_covered"], site["after"]["people_covered"]):
+    assert "{:,.0f}".format(v) in alltext, v
+# every new site to open is named with its id and name
+new = [r for r in csv.DictReader(open(os.path.join(d, site["folder"], "sites.csv"))) if r["status"] == "new"]
+assert new
+for r in new:
+    assert r["id"] + " " + r["name"] in alltext, r["id"]
+assert "sites to open" in alltext
+assert "gap" in alltext and site["status"] in alltext
+# supply: tonnes delivered, trips per depot, shortage reasons, ration caution
+sup = s["supply"]
+assert "%.0f t" % (sup["totals"]["kg_delivered"] / 1000) in alltext
+for dep, v in sup["totals"]["by_depot"].items():
+    assert "%s %g trips" % (dep, v["trips"]) in alltext, dep
+assert "trips per depot" in alltext
+unmet = list(csv.DictReader(open(os.path.join(d, "supply_unmet.csv"))))
+assert len(unmet) > 0
+for r in unmet:
+    assert r["what_to_do"] in alltext
+assert sup["caution"] in alltext
+assert "Days of cover %g" % sup["assumptions"]["days_of_cover"] in alltext
+assert "buffer %.0f%%" % (100 * sup["assumptions"]["buffer"]) in alltext
+# stock per site: every site of the stock table appears in the stock table rows
+for r in csv.DictReader(open(os.path.join(d, "supply_stock.csv"))):
+    assert r["site_id"] in alltext
+# images: 4 reach + chosen sites, coverage curve, shipments, stock chart
+names = [os.path.basename(p) for p in j["images"]]
+for want in ("sites_chosen.png", "coverage_curve.png", "supply_shipments.png", "stock_by_site.png"):
+    assert want in names, names
+imgs = root.findall(".//h:img", ns)
+assert len(imgs) == 8, len(imgs)
+for im in imgs:
+    png = base64.b64decode(im.get("src").split(",", 1)[1])
+    assert png[:8] == b"\x89PNG\r\n\x1a\n"
+assert j["notes"] == [], j["notes"]
+# section order: key figures, reach, chosen sites, supply, assumptions
+assert alltext.index("Key figures") < alltext.index("Chosen sites") < alltext.index("Supply: shipments") < alltext.index("Assumptions")
+PYEOF
+
     # A road layer that has gone missing is left off the maps and noted, not fatal;
     # sites.csv from before the x, y columns is refused with advice.
     cp -r "$WORK/demo" "$WORK/moved"
