@@ -1651,6 +1651,295 @@ done:
     return rc;
 }
 
+
+/* ---- section: compare (what-if variants) -------------------------------- */
+
+static int section_compare(rctx_t *c, const cJSON *s, err_t *e)
+{
+    enum { MAX_MAPS = 8 };
+    const cJSON *vars = cJSON_GetObjectItemCaseSensitive(s, "variants"), *it;
+    const cJSON *base = cJSON_GetObjectItemCaseSensitive(s, "base");
+    double limit = num(s, "limit_min"), total = num(s, "people_total");
+    size_t n = (size_t)cJSON_GetArraySize(vars), k = 0, worst = 0, n_maps = 0;
+    const char **names = NULL;
+    double *pushed = NULL;
+    const cJSON **byrank = NULL;
+    char *png = NULL, val[128], det[400], lab[160];
+    static const double steps[] = {5, 15, 30, 60};
+    int rc = ERR_OK;
+
+    if (n == 0 || !isfinite(limit))
+        return err_set(e, ERR_INPUT, "summary.json in '%s': the compare part lacks variants or limit_min; run compare again",
+                       c->outdir);
+    names = calloc(n, sizeof *names);
+    pushed = calloc(n, sizeof *pushed);
+    byrank = calloc(n, sizeof *byrank);
+    png = out_join(c->mapdir, "variants_pushed.png");
+    if (!names || !pushed || !byrank || !png) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    cJSON_ArrayForEach(it, vars)
+    {
+        names[k] = str(it, "name") ? str(it, "name") : "?";
+        pushed[k] = isfinite(num(it, "pushed_beyond_limit")) ? num(it, "pushed_beyond_limit") : 0;
+        if (pushed[k] > pushed[worst]) worst = k;
+        byrank[k] = it;
+        k++;
+    }
+    /* Ranking order (rank 1 first); variants without a rank keep their order. */
+    for (size_t i = 1; i < n; i++)
+        for (size_t j = i; j > 0 && num(byrank[j - 1], "rank") > num(byrank[j], "rank"); j--) {
+            const cJSON *t = byrank[j];
+            byrank[j] = byrank[j - 1];
+            byrank[j - 1] = t;
+        }
+
+    /* Key figures. */
+    if (isfinite(total) && total > 0) {
+        snprintf(val, sizeof val, "%.0f%%", 100 * num(base, "people_within_limit") / total);
+        snprintf(lab, sizeof lab, "of people within %g min as things are", limit);
+        fmt_people(num(base, "people_within_limit"), det, sizeof det);
+        snprintf(det + strlen(det), sizeof det - strlen(det), " people, %g sites open", num(base, "sites_open"));
+        figure(&c->figures, val, lab, det);
+    }
+    fmt_people(pushed[worst], val, sizeof val);
+    snprintf(lab, sizeof lab, "people pushed beyond %g min in the worst case", limit);
+    snprintf(det, sizeof det, "variant '%s'", names[worst]);
+    figure(&c->figures, val, lab, det);
+    snprintf(val, sizeof val, "%zu", n);
+    det[0] = '\0';
+    for (size_t i = 0; i < n; i++) {
+        char p[64];
+        fmt_people(num(byrank[i], "pushed_beyond_limit"), p, sizeof p);
+        snprintf(det + strlen(det), sizeof det - strlen(det), "%s%g. %s (%s)", i ? ", " : "", num(byrank[i], "rank"),
+                 str(byrank[i], "name") ? str(byrank[i], "name") : "?", p);
+    }
+    figure(&c->figures, val, "variants compared, worst first", det);
+
+    /* Maps: minutes gained or lost, one per variant. */
+    sb_str(&c->body, "<section class=\"page\"><h2 id=\"variants\">What if: variants compared</h2>\n");
+    load_points(c);
+    for (size_t i = 0; i < n && rc == ERR_OK; i++) {
+        const cJSON *v = byrank[i], *files = cJSON_GetObjectItemCaseSensitive(v, "files");
+        const char *dm = str(files, "delta_minutes");
+        char *tif = NULL, file[96], title[200], caption[300];
+        render_map_t *m = NULL;
+        render_scale_t sc;
+        float *vals = NULL, *mask = NULL;
+        int rw, rh;
+        if (dm == NULL) continue;
+        if (n_maps == MAX_MAPS) {
+            note(c, "maps drawn for the first %d variants only; the others are in the ranking table", MAX_MAPS);
+            break;
+        }
+        tif = out_join(c->outdir, dm);
+        if (tif == NULL) {
+            rc = err_set(e, ERR_NOMEM, "out of memory");
+            break;
+        }
+        rc = ensure_grid(c, tif, e);
+        if (rc == ERR_OK) {
+            load_vectors(c);
+            rc = render_scale_diverging(&sc, steps, sizeof steps / sizeof steps[0], e);
+        }
+        snprintf(title, sizeof title, "Minutes gained or lost: %s", str(v, "name") ? str(v, "name") : "?");
+        if (rc == ERR_OK) rc = map_open(c, title, &m, &rw, &rh, e);
+        if (rc == ERR_OK) rc = render_read_band(tif, rw, rh, RENDER_AVERAGE, &vals, e);
+        if (rc == ERR_OK) {
+            const points_t *ex = c->pts[0];
+            render_rgb_t dark = {0.10, 0.10, 0.12};
+            render_map_raster(m, vals, rw, rh, &sc);
+            mask = population_mask(c, rw, rh);
+            if (mask) render_map_blank(m, mask, rw, rh);
+            render_map_roads(m, c->roads);
+            render_map_outlines(m, c->districts, 0);
+            if (ex) {
+                render_map_points(m, ex->n, ex->x, ex->y, NULL, 0, ex->n > 200 ? 1.8 : 5, &dark, 1);
+                render_map_labels(m, ex->n, ex->x, ex->y, (const char *const *)ex->id);
+            }
+            render_legend_title(m, "Change in travel time (min)");
+            render_legend_scale(m, &sc);
+            render_legend_note(m, "Blue: faster. Brown: slower.");
+            render_legend_title(m, "Features");
+            if (ex) render_legend_point(m, dark, 5, 0, "site");
+            map_furniture_legend(c, m);
+            if (mask) render_legend_note(m, "Blank: no population data.");
+            snprintf(file, sizeof file, "variant_%zu.png", i + 1);
+            snprintf(caption, sizeof caption, "Variant '%s': minutes to the nearest site, variant minus as things are. ",
+                     str(v, "name") ? str(v, "name") : "?");
+            fmt_people(num(v, "pushed_beyond_limit"), val, sizeof val);
+            snprintf(caption + strlen(caption), sizeof caption - strlen(caption),
+                     "%s people pushed beyond %g min.", val, limit);
+            rc = map_close(c, m, file, "Map of minutes gained or lost in a variant", caption, e);
+            n_maps++;
+        }
+        free(vals);
+        free(mask);
+        free(tif);
+        render_map_free(m);
+    }
+    if (rc != ERR_OK) goto done;
+    rc = charts_bars(png, "People pushed beyond the limit, by variant", "people", n, names, pushed, NULL, e);
+    if (rc == ERR_OK)
+        rc = embed(c, png, "Bar chart of people pushed beyond the limit in each variant",
+                   "People who were within the limit as things are and are beyond it in each variant.", e);
+    if (rc != ERR_OK) goto done;
+    sb_str(&c->body, "<h3>Ranking</h3>\n<div class=\"scroll\"><table>\n<thead><tr><th class=\"n\">rank</th><th>variant</th>"
+                     "<th class=\"n\">within limit</th><th class=\"n\">pushed beyond</th><th class=\"n\">gained</th>"
+                     "<th class=\"n\">cut off</th><th class=\"n\">added person-hours</th><th class=\"n\">sites newly over capacity</th></tr></thead>\n<tbody>\n");
+    for (size_t i = 0; i < n; i++) {
+        const cJSON *v = byrank[i];
+        sb_fmt(&c->body, "<tr><td class=\"n\">%g</td><td>", num(v, "rank"));
+        sb_esc(&c->body, str(v, "name") ? str(v, "name") : "?");
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "people_within_limit"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "pushed_beyond_limit"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "gained_within_limit"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "cut_off"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "added_person_hours"));
+        sb_fmt(&c->body, "</td><td class=\"n\">%g</td></tr>\n", num(v, "sites_newly_over_capacity"));
+    }
+    sb_str(&c->body, "</tbody></table></div>\n</section>\n");
+    sb_fmt(&c->assumptions, "<li>Variants: each changes roads, speeds or sites as its scenario entry says; "
+                            "the limit is %g min; minutes are variant minus as things are.</li>\n", limit);
+done:
+    free(names);
+    free(pushed);
+    free(byrank);
+    free(png);
+    return rc;
+}
+
+/* ---- section: links (critical roads) ------------------------------------ */
+
+static int section_links(rctx_t *c, const cJSON *s, err_t *e)
+{
+    const cJSON *files = cJSON_GetObjectItemCaseSensitive(s, "files");
+    const cJSON *top = cJSON_GetObjectItemCaseSensitive(s, "top"), *it;
+    double limit = num(s, "limit_min"), smax = 0;
+    char *gp = NULL, val[128], det[600];
+    render_lines_t *sc = NULL, *ids = NULL;
+    double *score = NULL, *lx = NULL, *ly = NULL;
+    const char **lab = NULL;
+    size_t *idx = NULL, nl = 0;
+    render_map_t *m = NULL;
+    int rw, rh, rc = ERR_OK;
+
+    gp = out_join(c->outdir, str(files, "links") ? str(files, "links") : "links.gpkg");
+    if (gp == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    rc = ensure_grid(c, NULL, e);
+    if (rc != ERR_OK) goto done;
+    load_vectors(c);
+    /* The score rides in the name slot: the loader keeps one text per line. */
+    rc = render_lines_load(gp, "links", "class", "pushed_beyond_limit", c->wkt, &sc, e);
+    if (rc == ERR_OK) rc = render_lines_load(gp, "links", "class", "road_id", c->wkt, &ids, e);
+    if (rc != ERR_OK) goto done;
+    if (sc->n != ids->n) {
+        rc = err_set(e, ERR_INPUT, "'%s' changed while it was read; run links again", gp);
+        goto done;
+    }
+    score = calloc(sc->n + 1, sizeof *score);
+    idx = calloc(sc->n + 1, sizeof *idx);
+    lx = calloc(sc->n + 1, sizeof *lx);
+    ly = calloc(sc->n + 1, sizeof *ly);
+    lab = calloc(sc->n + 1, sizeof *lab);
+    if (!score || !idx || !lx || !ly || !lab) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    for (size_t i = 0; i < sc->n; i++) {
+        score[i] = sc->name[i] ? strtod(sc->name[i], NULL) : 0;
+        if (!isfinite(score[i]) || score[i] < 0) score[i] = 0;
+        if (score[i] > smax) smax = score[i];
+    }
+    order_desc(score, sc->n, idx);
+
+    /* Key figures. */
+    {
+        const cJSON *t0 = cJSON_GetArrayItem(top, 0);
+        fmt_people(num(t0, "pushed_beyond_limit"), val, sizeof val);
+        snprintf(det, sizeof det, "if road %s (%s%s) is cut; %g links scored", str(t0, "road_id") ? str(t0, "road_id") : "?",
+                 str(t0, "class") ? str(t0, "class") : "?", cJSON_IsTrue(cJSON_GetObjectItemCaseSensitive(t0, "bridge")) ? ", bridge" : "",
+                 num(s, "links_scored"));
+        figure(&c->figures, val, "people pushed beyond the limit by the most critical road", det);
+    }
+
+    /* Map: each scored link, width and colour by people pushed beyond. */
+    sb_str(&c->body, "<section class=\"page\"><h2 id=\"links\">Critical roads</h2>\n");
+    rc = map_open(c, "Critical roads: people pushed beyond the limit if cut", &m, &rw, &rh, e);
+    if (rc != ERR_OK) goto done;
+    render_map_roads(m, c->roads);
+    render_map_outlines(m, c->districts, 0);
+    for (size_t r = sc->n; r-- > 0;) {   /* least critical first, the worst on top */
+        size_t i = idx[r];
+        render_lines_t one = {1, &sc->start[i], sc->x, sc->y, &sc->rank[i], &sc->name[i]};
+        double t = smax > 0 ? score[i] / smax : 0;
+        if (score[i] <= 0) continue;
+        render_map_highlight(m, &one, render_ramp_warm(0.35 + 0.65 * sqrt(t)), 2 + 8 * sqrt(t));
+    }
+    for (size_t r = 0; r < sc->n && r < 10; r++) {
+        size_t i = idx[r], a = sc->start[i], b = sc->start[i + 1];
+        if (score[i] <= 0 || b <= a) continue;
+        lx[nl] = sc->x[(a + b) / 2];
+        ly[nl] = sc->y[(a + b) / 2];
+        lab[nl++] = ids->name[i] ? ids->name[i] : "?";
+    }
+    render_map_labels(m, nl, lx, ly, lab);
+    render_legend_title(m, "Pushed beyond the limit if cut");
+    {
+        char l1[200], l2[200];
+        fmt_people(smax, val, sizeof val);
+        snprintf(l1, sizeof l1, "%s people (most critical)", val);
+        fmt_people(smax / 4, val, sizeof val);
+        snprintf(l2, sizeof l2, "%s people", val);
+        render_legend_line(m, render_ramp_warm(1.0), 10, l1);
+        render_legend_line(m, render_ramp_warm(0.35 + 0.65 * 0.5), 6, l2);
+    }
+    render_legend_note(m, "Labelled: the ten most critical.");
+    render_legend_title(m, "Features");
+    map_furniture_legend(c, m);
+    rc = map_close(c, m, "critical_roads.png", "Map of critical roads, width and colour by people pushed beyond the limit",
+                   "Critical roads: each road link drawn wider and darker the more people would be pushed beyond the limit if it were cut; unmarked roads push nobody beyond it.",
+                   e);
+    if (rc != ERR_OK) goto done;
+    sb_str(&c->body, "<h3>The ten most critical roads</h3>\n<div class=\"scroll\"><table>\n<thead><tr><th class=\"n\">rank</th><th>road</th><th>class</th>"
+                     "<th>bridge</th><th class=\"n\">pushed beyond</th><th class=\"n\">cut off</th><th class=\"n\">added person-hours</th></tr></thead>\n<tbody>\n");
+    cJSON_ArrayForEach(it, top)
+    {
+        sb_fmt(&c->body, "<tr><td class=\"n\">%g</td><td>", num(it, "rank"));
+        sb_esc(&c->body, str(it, "road_id") ? str(it, "road_id") : "?");
+        sb_str(&c->body, "</td><td>");
+        sb_esc(&c->body, str(it, "class") ? str(it, "class") : "");
+        sb_str(&c->body, cJSON_IsTrue(cJSON_GetObjectItemCaseSensitive(it, "bridge")) ? "</td><td>yes" : "</td><td>no");
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(it, "pushed_beyond_limit"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(it, "cut_off"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(it, "added_person_hours"));
+        sb_str(&c->body, "</td></tr>\n");
+    }
+    sb_str(&c->body, "</tbody></table></div>\n</section>\n");
+    sb_fmt(&c->assumptions, "<li>Critical roads: each road link is cut on its own and people whose time "
+                            "to the nearest site passes %g min are counted.</li>\n", limit);
+done:
+    free(gp);
+    free(score);
+    free(idx);
+    free(lx);
+    free(ly);
+    free(lab);
+    render_lines_free(sc);
+    render_lines_free(ids);
+    render_map_free(m);
+    return rc;
+}
+
 /* ---- sections --------------------------------------------------------- */
 
 typedef struct section {
@@ -1664,6 +1953,8 @@ static const section_t sections[] = {
     {"reach", section_reach},
     {"site", section_site},
     {"supply", section_supply},
+    {"compare", section_compare},
+    {"links", section_links},
 };
 
 static void assumptions_common(rctx_t *c)
@@ -1858,7 +2149,7 @@ int report_write(const char *outdir, report_result_t *res, err_t *e)
     for (size_t i = 0; i < sizeof sections / sizeof sections[0]; i++)
         if (cJSON_IsObject(cJSON_GetObjectItemCaseSensitive(c.sum, sections[i].key))) n_sections++;
     if (n_sections == 0) {
-        rc = err_set(e, ERR_INPUT, "'%s' holds no results to report (no reach part); run 'sitereach reach' into '%s' first",
+        rc = err_set(e, ERR_INPUT, "'%s' holds no results to report (no reach, site, supply, compare or links part); run 'sitereach reach' or 'plan' into '%s' first",
                      sp, outdir);
         goto done;
     }

@@ -127,6 +127,53 @@ assert j["notes"] == [], j["notes"]
 assert alltext.index("Key figures") < alltext.index("Chosen sites") < alltext.index("Supply: shipments") < alltext.index("Assumptions")
 PYEOF
 
+    # What-if reports on the compare and links folders (those commands do not
+    # write a report themselves): variants ranked with their minutes maps, the
+    # critical roads with their top-10 table.
+    expect_ok "$BIN" compare scenarios/demo/scenario.json -o "$WORK/cmp" --quiet
+    expect_ok "$BIN" report "$WORK/cmp" --json
+    $PY - "$WORK/cmp" "$WORK/out" <<'PYEOF' && ok || bad "compare report"
+import json, sys, os, csv
+import xml.etree.ElementTree as ET
+d = sys.argv[1]
+j = json.load(open(sys.argv[2]))
+s = json.load(open(os.path.join(d, "summary.json")))
+text = open(os.path.join(d, "report.html"), encoding="utf-8").read()
+alltext = " ".join(ET.fromstring(text.split("\n", 1)[1]).itertext())
+vs = s["compare"]["variants"]
+worst = max(vs, key=lambda v: v["pushed_beyond_limit"])
+assert "{:,.0f}".format(worst["pushed_beyond_limit"]) in alltext
+assert "variant '%s'" % worst["name"] in alltext
+for v in vs:
+    assert "Variant '%s': minutes to the nearest site" % v["name"] in alltext, v["name"]
+rows = list(csv.DictReader(open(os.path.join(d, "compare.csv"))))
+assert "Ranking" in alltext
+names = [os.path.basename(p) for p in j["images"]]
+assert names == ["variant_%d.png" % (i + 1) for i in range(len(vs))] + ["variants_pushed.png"], names
+assert text.count("data:image/png;base64,") == len(vs) + 1
+assert j["notes"] == [], j["notes"]
+assert len(rows) == len(vs)
+PYEOF
+    expect_ok "$BIN" links scenarios/demo/scenario.json -o "$WORK/lnk" --quiet
+    expect_ok "$BIN" report "$WORK/lnk" --json
+    $PY - "$WORK/lnk" "$WORK/out" <<'PYEOF' && ok || bad "links report"
+import json, sys, os
+import xml.etree.ElementTree as ET
+d = sys.argv[1]
+j = json.load(open(sys.argv[2]))
+s = json.load(open(os.path.join(d, "summary.json")))
+text = open(os.path.join(d, "report.html"), encoding="utf-8").read()
+alltext = " ".join(ET.fromstring(text.split("\n", 1)[1]).itertext())
+top = s["links"]["top"]
+assert len(top) == 10
+for t in top:
+    assert t["road_id"] in alltext, t["road_id"]
+assert "{:,.0f}".format(top[0]["pushed_beyond_limit"]) in alltext
+assert "The ten most critical roads" in alltext
+assert [os.path.basename(p) for p in j["images"]] == ["critical_roads.png"]
+assert j["notes"] == [], j["notes"]
+PYEOF
+
     # A road layer that has gone missing is left off the maps and noted, not fatal;
     # sites.csv from before the x, y columns is refused with advice.
     cp -r "$WORK/demo" "$WORK/moved"
