@@ -1396,7 +1396,8 @@ static int section_supply(rctx_t *c, const cJSON *s, err_t *e)
             vals[i * nc + j] += isfinite(k) && k > 0 ? k : 0;
         }
     }
-    snprintf(val, sizeof val, "%.0f t", num(tot, "kg_delivered") / 1000);
+    fmt_people(num(tot, "kg_delivered") / 1000, val, sizeof val);   /* tonnes, 1,093 style */
+    snprintf(val + strlen(val), sizeof val - strlen(val), " t");
     snprintf(det, sizeof det, "to %g sites for %g days;", num(tot, "sites"), num(as, "days_of_cover"));
     {
         const cJSON *bc = cJSON_GetObjectItemCaseSensitive(tot, "by_commodity");

@@ -99,7 +99,7 @@ assert "sites to open" in alltext
 assert "gap" in alltext and site["status"] in alltext
 # supply: tonnes delivered, trips per depot, shortage reasons, ration caution
 sup = s["supply"]
-assert "%.0f t" % (sup["totals"]["kg_delivered"] / 1000) in alltext
+assert "{:,.0f} t".format(sup["totals"]["kg_delivered"] / 1000) in alltext
 for dep, v in sup["totals"]["by_depot"].items():
     assert "%s %g trips" % (dep, v["trips"]) in alltext, dep
 assert "trips per depot" in alltext

@@ -109,7 +109,7 @@ def one(work, out):
     if "supply" in s:
         tot = s["supply"]["totals"]
         check("stock delivered to the sites" in dom, name + ": DOM lacks the stock figure")
-        check("%.0f t" % (tot["kg_delivered"] / 1000) in dom, name + ": DOM lacks tonnes delivered")
+        check("{:,.0f} t".format(tot["kg_delivered"] / 1000) in dom, name + ": DOM lacks tonnes delivered")
         for dep, v in tot["by_depot"].items():
             check("%s %g trips" % (dep, v["trips"]) in dom, name + ": DOM lacks trips of depot " + dep)
         for row in csv.DictReader(open(os.path.join(out, "supply_stock.csv"))):
