@@ -174,6 +174,37 @@ assert [os.path.basename(p) for p in j["images"]] == ["critical_roads.png"]
 assert j["notes"] == [], j["notes"]
 PYEOF
 
+    # Refusals of the new sections: tables from an older version, an empty
+    # compare part; a missing depot layer is noted and the map drawn without it.
+    cp -r "$WORK/plan" "$WORK/plan2"
+    cut -d, -f1-3 "$WORK/plan/site/sites.csv" >"$WORK/plan2/site/sites.csv"
+    expect_fail 1 "lacks the columns id, status, people_served" "$BIN" report "$WORK/plan2"
+    cp "$WORK/plan/site/sites.csv" "$WORK/plan2/site/sites.csv"
+    cut -d, -f1-3 "$WORK/plan/supply_shipments.csv" >"$WORK/plan2/supply_shipments.csv"
+    expect_fail 1 "supply_shipments.csv' lacks a column the report needs (depot_id, site_id, trips)" "$BIN" report "$WORK/plan2"
+    rm "$WORK/plan2/supply_unmet.csv"
+    cp "$WORK/plan/supply_shipments.csv" "$WORK/plan2/supply_shipments.csv"
+    expect_fail 1 "supply_unmet.csv" "$BIN" report "$WORK/plan2"
+    cp -r "$WORK/cmp" "$WORK/cmp2"
+    $PY - "$WORK/cmp2/summary.json" <<'PYEOF'
+import json, sys
+p = sys.argv[1]
+s = json.load(open(p))
+s["compare"]["variants"] = []
+json.dump(s, open(p, "w"))
+PYEOF
+    expect_fail 1 "the compare part lacks variants or limit_min" "$BIN" report "$WORK/cmp2"
+    cp -r "$WORK/plan" "$WORK/plan3"
+    $PY - "$WORK/plan3/summary.json" <<'PYEOF'
+import json, sys
+p = sys.argv[1]
+s = json.load(open(p))
+s["scenario"] = "/nonexistent/scenario.json"
+json.dump(s, open(p, "w"))
+PYEOF
+    expect_ok "$BIN" report "$WORK/plan3"
+    expect_out "site and depot positions left off the maps"
+
     # A road layer that has gone missing is left off the maps and noted, not fatal;
     # sites.csv from before the x, y columns is refused with advice.
     cp -r "$WORK/demo" "$WORK/moved"
