@@ -1235,7 +1235,7 @@ static int section_site(rctx_t *c, const cJSON *s, err_t *e)
             render_map_labels(m, n, x, y, lab);
             render_legend_title(m, "Sites");
             render_legend_point(m, kept, 6, 0, "existing site, kept");
-            render_legend_point(m, fresh, 6, 1, "new site to open");
+            render_legend_point(m, fresh, 6, 0, "new site to open (ringed)");
             render_legend_title(m, "People each site serves");
             render_legend_sizes(m, vmax, rmax, "people");
             render_legend_title(m, "People per km\xc2\xb2 (everyone)");
