@@ -55,6 +55,12 @@ int charts_bars(const char *png, const char *title, const char *unit, size_t n,
 int charts_coverage_curve(const char *png, const char *title, size_t n, const double *covered,
                           double total, charts_box_t *box, err_t *e);
 
+/* The same when sites are added to existing ones: 'base' = people the
+ * existing sites cover (0..total), drawn as a dashed floor; the first bar is
+ * the gain over it and the axis counts new sites. */
+int charts_coverage_curve_base(const char *png, const char *title, size_t n, const double *covered,
+                               double base, double total, charts_box_t *box, err_t *e);
+
 /* Short number for axes and labels: 950, 12.5k, 3.2M. */
 void charts_fmt_short(double v, char *buf, size_t n);
 

@@ -165,6 +165,26 @@ static void test_curve(void)
     cov[2] = 200000;
     CHECK(charts_coverage_curve(png, "Coverage", 5, cov, 100000, NULL, &e) == ERR_INPUT);
     CHECK_STR_HAS(e.msg, "with 3 sites is 200000");
+    cov[2] = 80000;
+    /* Sites added to existing ones covering 30,000: the first bar is the gain
+     * over that floor (10,000), not all 40,000 covered. Hand-computed values. */
+    CHECK(charts_coverage_curve_base(png, "Coverage", 5, cov, 30000, 100000, &b, &e) == ERR_OK);
+    img = cairo_image_surface_create_from_png(png);
+    {
+        double colw = (b.x1 - b.x0) / 5;
+        int x = (int)(b.x0 + colw * 0.3);
+        CHECK(near_rgb(pixel(img, x, (int)(b.y1 - 5000 * b.scale)), bar, 2));
+        CHECK(!near_rgb(pixel(img, x, (int)(b.y1 - 20000 * b.scale)), bar, 2));
+        /* Site 2 still adds 25,000 over site 1. */
+        x = (int)(b.x0 + colw * 1.3);
+        CHECK(near_rgb(pixel(img, x, (int)(b.y1 - 12000 * b.scale)), bar, 2));
+    }
+    cairo_surface_destroy(img);
+    remove(png);
+    CHECK(charts_coverage_curve_base(png, "Coverage", 5, cov, 150000, 100000, NULL, &e) == ERR_INPUT);
+    CHECK_STR_HAS(e.msg, "covered before adding sites is 150000");
+    CHECK(charts_coverage_curve_base(png, "Coverage", 5, cov, NAN, 100000, NULL, &e) == ERR_INPUT);
+    CHECK_STR_HAS(e.msg, "covered before adding sites is nan");
 }
 
 static void test_short(void)

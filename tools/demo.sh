@@ -47,7 +47,9 @@ step reach "$bin" reach "$scenario" -o "$out/reach"
 step report "$bin" report "$out/reach"
 step site "$bin" site "$scenario" -o "$out/site"
 step compare "$bin" compare "$scenario" -o "$out/compare"
+step report-compare "$bin" report "$out/compare"
 step links "$bin" links "$scenario" -o "$out/links"
+step report-links "$bin" report "$out/links"
 # The whole job (docs/plan.md): reach, site selection, stock and shipments, report.
 step plan "$bin" plan "$scenario" -o "$out"
 

@@ -300,6 +300,12 @@ done:
 int charts_coverage_curve(const char *png, const char *title, size_t n, const double *covered,
                           double total, charts_box_t *box, err_t *e)
 {
+    return charts_coverage_curve_base(png, title, n, covered, 0, total, box, e);
+}
+
+int charts_coverage_curve_base(const char *png, const char *title, size_t n, const double *covered,
+                               double base, double total, charts_box_t *box, err_t *e)
+{
     canvas_t cv = {0};
     charts_box_t b = {0};
     render_rgb_t bar = render_ramp_cool(0.25), line = render_ramp_cool(0.85);
@@ -317,6 +323,9 @@ int charts_coverage_curve(const char *png, const char *title, size_t n, const do
         if (!isfinite(covered[k]) || covered[k] < 0 || covered[k] > total * (1 + 1e-9))
             return err_set(e, ERR_INPUT, "coverage curve '%s': people covered with %zu sites is %g; it must lie between 0 and the total %g",
                            title ? title : "", k + 1, covered[k], total);
+    if (!isfinite(base) || base < 0 || base > total * (1 + 1e-9))
+        return err_set(e, ERR_INPUT, "coverage curve '%s': people covered before adding sites is %g; it must lie between 0 and the total %g",
+                       title ? title : "", base, total);
     rc = canvas_open(&cv, 440, title, e);
     if (rc != ERR_OK) goto done;
     b.img_w = cv.w;
@@ -350,7 +359,7 @@ int charts_coverage_curve(const char *png, const char *title, size_t n, const do
     }
     /* Marginal gain of each added site (bars), then the cumulative line. */
     for (size_t k = 0; k < n; k++) {
-        double gain = covered[k] - (k ? covered[k - 1] : 0);
+        double gain = covered[k] - (k ? covered[k - 1] : base);
         double x = b.x0 + colw * (double)k, hgt = gain * b.scale;
         cairo_rectangle(cv.cr, x + colw * 0.15, hgt >= 0 ? b.y1 - hgt : b.y1, colw * 0.7, fabs(hgt));
         cairo_set_source_rgb(cv.cr, bar.r, bar.g, bar.b);
@@ -383,7 +392,22 @@ int charts_coverage_curve(const char *png, const char *title, size_t n, const do
     cairo_line_to(cv.cr, b.x1, b.y1 + 0.5);
     cairo_set_line_width(cv.cr, 1);
     cairo_stroke(cv.cr);
-    text_center(cv.cr, 0.5 * (b.x0 + b.x1), b.y1 + 33, "number of sites open");
+    if (base > 0) {
+        /* Existing sites kept: their coverage as a dashed floor under the gains. */
+        double y = floor(b.y1 - base * b.scale) + 0.5, dash[] = {6, 4};
+        cairo_set_dash(cv.cr, dash, 2, 0);
+        cairo_move_to(cv.cr, b.x0, y);
+        cairo_line_to(cv.cr, b.x1, y);
+        cairo_set_source_rgb(cv.cr, 0.35, 0.35, 0.40);
+        cairo_set_line_width(cv.cr, 1.5);
+        cairo_stroke(cv.cr);
+        cairo_set_dash(cv.cr, NULL, 0, 0);
+        ink(cv.cr);
+        cairo_move_to(cv.cr, b.x0 + 6, y - 5);
+        cairo_show_text(cv.cr, "covered by the existing sites");
+    }
+    text_center(cv.cr, 0.5 * (b.x0 + b.x1), b.y1 + 33,
+                base > 0 ? "number of new sites added to the existing ones" : "number of sites open");
     /* Key: what bars and line mean. */
     font(cv.cr, 12, 0);
     cairo_rectangle(cv.cr, b.x0, TITLE_H, 16, 12);

@@ -16,7 +16,9 @@
 #include <cJSON.h>
 
 #include "charts.h"
+#include "grid.h"
 #include "output.h"
+#include "points.h"
 #include "render.h"
 #include "scenario.h"
 
@@ -354,6 +356,9 @@ typedef struct rctx {
     render_lines_t *roads;     /* NULL when not available */
     render_lines_t *districts; /* NULL when not available */
     int loaded_vectors;
+    grid_t *pgrid;             /* population grid for placing points (load_points) */
+    points_t *pts[3];          /* existing sites, candidates, depots; NULL when absent */
+    int loaded_points;
 } rctx_t;
 
 static void note(rctx_t *c, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
@@ -1048,6 +1053,907 @@ done:
     return rc;
 }
 
+/* ---- shared by the site, supply and what-if sections ------------------ */
+
+/* The grid of the run for the maps: travel_time.tif when reach ran, else
+ * 'raster' (a raster of the section), else the population raster. */
+static int ensure_grid(rctx_t *c, const char *raster, err_t *e)
+{
+    const char *p = raster ? raster : input_path(c->sum, "population");
+
+    if (c->wkt != NULL) return ERR_OK;
+    if (p == NULL)
+        return err_set(e, ERR_INPUT, "summary.json in '%s' names no raster to draw maps on (no reach part, no population input)",
+                       c->outdir);
+    return render_raster_info(p, &c->nx, &c->ny, c->gt, &c->geographic, &c->m_per_unit, &c->wkt, e);
+}
+
+/* Coordinates of existing sites, candidates and depots, read again from the
+ * scenario's point layers (site/sites.csv and the supply tables carry ids, not
+ * coordinates). Read once; a layer that cannot be read is noted. */
+static void load_points(rctx_t *c)
+{
+    const char *pop = input_path(c->sum, "population");
+    const scen_layer_t *lay[3];
+    static const char *what[3] = {"existing sites", "candidate sites", "depots"};
+    err_t e = {0};
+
+    if (c->loaded_points) return;
+    c->loaded_points = 1;
+    if (c->scen == NULL || pop == NULL) {
+        note(c, "site and depot positions left off the maps: the scenario or the population raster cannot be read again");
+        return;
+    }
+    if (grid_load(pop, &c->pgrid, &e) != ERR_OK) {
+        note(c, "site and depot positions left off the maps: %s", e.msg);
+        return;
+    }
+    lay[0] = &c->scen->existing;
+    lay[1] = &c->scen->candidates;
+    lay[2] = &c->scen->depots;
+    for (int k = 0; k < 3; k++) {
+        if (lay[k]->path == NULL) continue;
+        if (points_load(lay[k], what[k], c->pgrid, &c->pts[k], &e) != ERR_OK)
+            note(c, "%s left off the maps: %s", what[k], e.msg);
+    }
+}
+
+/* Position of point 'id' in layer k (0 existing, 1 candidates, 2 depots;
+ * -1 = sites of either kind). 0 when found. */
+static int point_xy(const rctx_t *c, int k, const char *id, double *x, double *y)
+{
+    for (int l = 0; l < 3; l++) {
+        const points_t *p = c->pts[l];
+        if (p == NULL || (k >= 0 && l != k) || (k < 0 && l == 2)) continue;
+        for (size_t i = 0; i < p->n; i++)
+            if (strcmp(p->id[i], id) == 0) {
+                *x = p->x[i];
+                *y = p->y[i];
+                return 0;
+            }
+    }
+    return -1;
+}
+
+/* A text list "a, b, c" of at most 'max' items into an sbuf, escaped. */
+static void sb_list_item(sbuf_t *b, size_t k, const char *text)
+{
+    sb_str(b, k ? ", " : "");
+    sb_esc(b, text);
+}
+
+/* Density of all people (people per km2) under a site map: where people live. */
+static int map_people_base(rctx_t *c, render_map_t *m, int rw, int rh, render_scale_t *sc,
+                           err_t *e)
+{
+    const char *pop = input_path(c->sum, "population");
+    float *v = NULL;
+    double all = 0;
+    int rc;
+
+    render_scale_density(sc);
+    if (pop == NULL) return ERR_OK;
+    /* Every cell's time "exceeds" -inf: the population raster against itself
+     * gives the density of everyone. */
+    rc = render_density_beyond(pop, pop, -INFINITY, rw, rh, &v, &all, e);
+    if (rc == ERR_OK) render_map_raster(m, v, rw, rh, sc);
+    free(v);
+    return rc;
+}
+
+/* ---- section: site selection ------------------------------------------ */
+
+static int section_site(rctx_t *c, const cJSON *s, err_t *e)
+{
+    const cJSON *files = cJSON_GetObjectItemCaseSensitive(s, "files");
+    const cJSON *before = cJSON_GetObjectItemCaseSensitive(s, "before");
+    const cJSON *after = cJSON_GetObjectItemCaseSensitive(s, "after");
+    const cJSON *curve = cJSON_GetObjectItemCaseSensitive(s, "coverage_curve"), *it;
+    const char *folder = str(s, "folder");
+    double total = num(s, "people_total"), limit = num(s, "limit_min");
+    char *dir = NULL, *sp = NULL, *png = NULL;
+    csv_t *t = NULL;
+    double *x = NULL, *y = NULL, *served = NULL, *covered = NULL, vmax = 0, base = 0;
+    render_rgb_t *fill = NULL;
+    const char **lab = NULL;
+    int *isnew = NULL;
+    size_t n = 0, n_new = 0, n_curve = 0, n_missing = 0;
+    sbuf_t list = {0};
+    char val[256], det[256], a[64], b[64];
+    render_rgb_t kept = {0.17, 0.29, 0.42}, fresh = render_oklch(0.66, 0.15, 150);
+    int rc = ERR_OK, cid, cname, cst, cpe;
+
+    dir = folder ? out_join(c->outdir, folder) : strdup(c->outdir);
+    if (dir == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    sp = out_join(dir, str(files, "sites") ? str(files, "sites") : "sites.csv");
+    if (sp == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    rc = csv_load(sp, &t, e);
+    if (rc != ERR_OK) goto done;
+    cid = csv_col(t, "id"), cname = csv_col(t, "name"), cst = csv_col(t, "status"),
+    cpe = csv_col(t, "people_served");
+    if (cid < 0 || cst < 0 || cpe < 0) {
+        rc = err_set(e, ERR_INPUT, "'%s' lacks the columns id, status, people_served; run site again with this version",
+                     sp);
+        goto done;
+    }
+    rc = ensure_grid(c, NULL, e);
+    if (rc != ERR_OK) goto done;
+    load_vectors(c);
+    load_points(c);
+    x = calloc(t->rows + 1, sizeof *x);
+    y = calloc(t->rows + 1, sizeof *y);
+    served = calloc(t->rows + 1, sizeof *served);
+    fill = calloc(t->rows + 1, sizeof *fill);
+    lab = calloc(t->rows + 1, sizeof *lab);
+    isnew = calloc(t->rows + 1, sizeof *isnew);
+    if (!x || !y || !served || !fill || !lab || !isnew) {
+        rc = err_set(e, ERR_NOMEM, "out of memory reading '%s'", sp);
+        goto done;
+    }
+    for (size_t i = 0; i < t->rows; i++) {
+        const char *st = csv_get(t, i, cst), *id = csv_get(t, i, cid);
+        int nw = strcmp(st, "new") == 0;
+        if (strcmp(st, "closed") == 0) continue;   /* not open: not on the map */
+        if (nw) {
+            sb_list_item(&list, n_new, id);
+            if (cname >= 0 && csv_get(t, i, cname)[0]) {
+                sb_str(&list, " ");
+                sb_esc(&list, csv_get(t, i, cname));
+            }
+            n_new++;
+        }
+        if (point_xy(c, -1, id, &x[n], &y[n]) != 0) {
+            n_missing++;
+            continue;
+        }
+        served[n] = csv_num(t, i, cpe);
+        if (!isfinite(served[n])) served[n] = 0;
+        if (served[n] > vmax) vmax = served[n];
+        fill[n] = nw ? fresh : kept;
+        isnew[n] = nw;
+        lab[n] = id;
+        n++;
+    }
+
+    /* Key figures. */
+    fmt_people(num(before, "people_covered"), a, sizeof a);
+    fmt_people(num(after, "people_covered"), b, sizeof b);
+    snprintf(val, sizeof val, "%.0f%% \xe2\x86\x92 %.0f%%", 100 * num(before, "share"), 100 * num(after, "share"));
+    snprintf(det, sizeof det, "%s \xe2\x86\x92 %s people within %g min (%g \xe2\x86\x92 %g sites)", a, b, limit,
+             num(before, "sites"), num(after, "sites"));
+    figure(&c->figures, val, "people covered before \xe2\x86\x92 after the chosen sites", det);
+    snprintf(val, sizeof val, "%zu", n_new);
+    figure(&c->figures, val, "sites to open", list.s ? list.s : "none: the existing sites are kept as they are");
+
+    /* Body: map of the chosen sites, coverage curve. */
+    sb_str(&c->body, "<section class=\"page\"><h2 id=\"site-selection\">Chosen sites</h2>\n");
+    sb_str(&c->body, "<p><strong>Sites to open:</strong> ");
+    sb_str(&c->body, list.s ? list.s : "none");
+    sb_str(&c->body, ".</p>\n");
+    {
+        render_map_t *m = NULL;
+        render_scale_t sc;
+        int rw, rh;
+        double rmax = n > 200 ? 8 : 22;
+        rc = map_open(c, "Chosen sites: kept and new", &m, &rw, &rh, e);
+        if (rc == ERR_OK) rc = map_people_base(c, m, rw, rh, &sc, e);
+        if (rc == ERR_OK) {
+            render_map_roads(m, c->roads);
+            render_map_outlines(m, c->districts, 0);
+            render_map_points(m, n, x, y, served, vmax, rmax, fill, 0);
+            render_map_rings(m, n, x, y, isnew, rmax + 3, fresh);
+            render_map_labels(m, n, x, y, lab);
+            render_legend_title(m, "Sites");
+            render_legend_point(m, kept, 6, 0, "existing site, kept");
+            render_legend_point(m, fresh, 6, 0, "new site to open (ringed)");
+            render_legend_title(m, "People each site serves");
+            render_legend_sizes(m, vmax, rmax, "people");
+            render_legend_title(m, "People per km\xc2\xb2 (everyone)");
+            render_legend_scale(m, &sc);
+            render_legend_title(m, "Features");
+            map_furniture_legend(c, m);
+            rc = map_close(c, m, "sites_chosen.png", "Map of the chosen sites, kept and new, sized by people served",
+                           "Chosen sites: existing sites kept (dark blue) and new sites to open (green, ringed); circle area \xe2\x88\x9d people the site serves within the limit.",
+                           e);
+        }
+        render_map_free(m);
+        if (rc != ERR_OK) goto done;
+    }
+    if (n_missing > 0) note(c, "%zu chosen sites not drawn on the map: their positions were not found in the scenario's site layers", n_missing);
+    covered = calloc((size_t)cJSON_GetArraySize(curve) + 1, sizeof *covered);
+    if (covered == NULL) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    cJSON_ArrayForEach(it, curve) if (isfinite(num(it, "people_covered"))) covered[n_curve++] = num(it, "people_covered");
+    /* With existing sites kept, the curve counts new sites on top of them. */
+    if (num(s, "sites_existing") > 0 && isfinite(num(before, "people_covered")) && n_curve > 0 &&
+        covered[0] >= num(before, "people_covered"))
+        base = num(before, "people_covered");
+    if (n_curve > 0 && total > 0) {
+        png = out_join(c->mapdir, "coverage_curve.png");
+        if (png == NULL) {
+            rc = err_set(e, ERR_NOMEM, "out of memory");
+            goto done;
+        }
+        rc = charts_coverage_curve_base(png, "People covered by the number of sites chosen", n_curve, covered,
+                                        base, total, NULL, e);
+        if (rc == ERR_OK)
+            rc = embed(c, png, "Coverage curve: people covered against the number of sites, with each site's gain",
+                       "People covered as sites are added one by one (line: share of everyone) and the gain each added site brings (bars).",
+                       e);
+        if (rc != ERR_OK) goto done;
+        sb_fmt(&c->body, "<h3>Gain of each added site</h3>\n<div class=\"scroll\"><table>\n<thead><tr><th class=\"n\">%s</th>"
+                         "<th class=\"n\">people covered</th><th class=\"n\">gain</th><th class=\"n\">share</th></tr></thead>\n<tbody>\n",
+               base > 0 ? "new sites" : "sites");
+        for (size_t k = 0; k < n_curve; k++) {
+            sb_fmt(&c->body, "<tr><td class=\"n\">%zu</td><td class=\"n\">", k + 1);
+            sb_people(&c->body, covered[k]);
+            sb_str(&c->body, "</td><td class=\"n\">");
+            sb_people(&c->body, covered[k] - (k ? covered[k - 1] : base));
+            sb_fmt(&c->body, "</td><td class=\"n\">%.1f%%</td></tr>\n", 100 * covered[k] / total);
+        }
+        sb_str(&c->body, "</tbody></table></div>\n");
+    }
+    sb_str(&c->body, "</section>\n");
+
+    /* Assumptions. */
+    sb_str(&c->assumptions, "<li>Site selection: model ");
+    sb_esc(&c->assumptions, str(s, "model") ? str(s, "model") : "?");
+    sb_str(&c->assumptions, ", solver status ");
+    sb_esc(&c->assumptions, str(s, "status") ? str(s, "status") : "?");
+    sb_fmt(&c->assumptions, ", gap %.2f%% between the plan and the best possible", 100 * num(s, "gap"));
+    if (isfinite(num(s, "solver_seconds"))) sb_fmt(&c->assumptions, " (%.2f s)", num(s, "solver_seconds"));
+    sb_str(&c->assumptions, "; existing sites ");
+    sb_fmt(&c->assumptions, "%g, candidates %g.</li>\n", num(s, "sites_existing"), num(s, "sites_candidate_layer"));
+done:
+    free(dir);
+    free(sp);
+    free(png);
+    free(x);
+    free(y);
+    free(served);
+    free(covered);
+    free(fill);
+    free(lab);
+    free(isnew);
+    free(list.s);
+    csv_free(t);
+    return rc;
+}
+
+/* ---- section: supply ---------------------------------------------------- */
+
+/* Index of 'key' in names[0..n), appending it when new (n grows). */
+static size_t name_index(const char **names, size_t *n, const char *key)
+{
+    for (size_t i = 0; i < *n; i++)
+        if (strcmp(names[i], key) == 0) return i;
+    names[*n] = key;
+    return (*n)++;
+}
+
+static int section_supply(rctx_t *c, const cJSON *s, err_t *e)
+{
+    const cJSON *files = cJSON_GetObjectItemCaseSensitive(s, "files");
+    const cJSON *as = cJSON_GetObjectItemCaseSensitive(s, "assumptions");
+    const cJSON *tot = cJSON_GetObjectItemCaseSensitive(s, "totals");
+    const cJSON *sol = cJSON_GetObjectItemCaseSensitive(s, "solver");
+    const char *folder = str(s, "folder"), *caution = str(s, "caution");
+    char *dir = NULL, *shp = NULL, *stp = NULL, *unp = NULL, *png = NULL;
+    csv_t *sh = NULL, *stk = NULL, *un = NULL;
+    double *x1 = NULL, *y1 = NULL, *x2 = NULL, *y2 = NULL, *trips = NULL, *vals = NULL;
+    double *dx = NULL, *dy = NULL, *sx = NULL, *sy = NULL, tmax = 0;
+    const char **sites = NULL, **comms = NULL, **depots = NULL;
+    size_t nf = 0, ns = 0, nc = 0, nd = 0, nsp = 0, ndp = 0;
+    char val[128], det[600];
+    sbuf_t list = {0};
+    const cJSON *it;
+    render_rgb_t flow = render_oklch(0.50, 0.12, 250), depc = render_oklch(0.45, 0.16, 30),
+                 sitec = {0.17, 0.29, 0.42};
+    int rc = ERR_OK;
+
+    dir = folder ? out_join(c->outdir, folder) : strdup(c->outdir);
+    if (dir == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    shp = out_join(dir, str(files, "shipments") ? str(files, "shipments") : "supply_shipments.csv");
+    stp = out_join(dir, str(files, "stock") ? str(files, "stock") : "supply_stock.csv");
+    unp = out_join(dir, str(files, "unmet") ? str(files, "unmet") : "supply_unmet.csv");
+    png = out_join(c->mapdir, "stock_by_site.png");
+    if (!shp || !stp || !unp || !png) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    rc = csv_load(shp, &sh, e);
+    if (rc == ERR_OK) rc = csv_load(stp, &stk, e);
+    if (rc == ERR_OK) rc = csv_load(unp, &un, e);
+    if (rc != ERR_OK) goto done;
+    {
+        int need[] = {csv_col(sh, "depot_id"), csv_col(sh, "site_id"), csv_col(sh, "trips"),
+                      csv_col(stk, "site_id"), csv_col(stk, "commodity"), csv_col(stk, "kg_delivered"),
+                      csv_col(un, "site_id"), csv_col(un, "commodity"), csv_col(un, "short"),
+                      csv_col(un, "reason")};
+        for (size_t k = 0; k < sizeof need / sizeof need[0]; k++)
+            if (need[k] < 0) {
+                rc = err_set(e, ERR_INPUT, "'%s' lacks a column the report needs (%s); run the command again with this version",
+                             k < 3 ? shp : k < 6 ? stp : unp,
+                             k < 3 ? "depot_id, site_id, trips" : k < 6 ? "site_id, commodity, kg_delivered"
+                                                                        : "site_id, commodity, short, reason");
+                goto done;
+            }
+    }
+    rc = ensure_grid(c, NULL, e);
+    if (rc != ERR_OK) goto done;
+    load_vectors(c);
+    load_points(c);
+
+    /* Key figures: stock per site and trips per depot. */
+    {
+        int cs = csv_col(stk, "site_id"), cc = csv_col(stk, "commodity"), ck = csv_col(stk, "kg_delivered");
+        sites = calloc(stk->rows + 1, sizeof *sites);
+        comms = calloc(stk->rows + 1, sizeof *comms);
+        vals = calloc((stk->rows + 1) * (stk->rows + 1), sizeof *vals);
+        if (!sites || !comms || !vals) {
+            rc = err_set(e, ERR_NOMEM, "out of memory reading '%s'", stp);
+            goto done;
+        }
+        for (size_t r = 0; r < stk->rows; r++) {
+            name_index(sites, &ns, csv_get(stk, r, cs));
+            name_index(comms, &nc, csv_get(stk, r, cc));
+        }
+        for (size_t r = 0; r < stk->rows; r++) {
+            size_t i = name_index(sites, &ns, csv_get(stk, r, cs)), j = name_index(comms, &nc, csv_get(stk, r, cc));
+            double k = csv_num(stk, r, ck);
+            vals[i * nc + j] += isfinite(k) && k > 0 ? k : 0;
+        }
+    }
+    fmt_people(num(tot, "kg_delivered") / 1000, val, sizeof val);   /* tonnes, 1,093 style */
+    snprintf(val + strlen(val), sizeof val - strlen(val), " t");
+    snprintf(det, sizeof det, "to %g sites for %g days;", num(tot, "sites"), num(as, "days_of_cover"));
+    {
+        const cJSON *bc = cJSON_GetObjectItemCaseSensitive(tot, "by_commodity");
+        cJSON_ArrayForEach(it, bc)
+        {
+            char d[64], nd_[64];
+            fmt_people(num(it, "delivered"), d, sizeof d);
+            fmt_people(num(it, "needed"), nd_, sizeof nd_);
+            snprintf(det + strlen(det), sizeof det - strlen(det), " %s %s of %s %s;", it->string, d, nd_,
+                     str(it, "unit") ? str(it, "unit") : "");
+        }
+        if (strlen(det) > 0 && det[strlen(det) - 1] == ';') det[strlen(det) - 1] = '\0';
+    }
+    figure(&c->figures, val, "stock delivered to the sites", det);
+    snprintf(val, sizeof val, "%g", num(tot, "trips"));
+    {
+        const cJSON *bd = cJSON_GetObjectItemCaseSensitive(tot, "by_depot");
+        size_t k = 0;
+        cJSON_ArrayForEach(it, bd)
+        {
+            char p[200];
+            snprintf(p, sizeof p, "%s %g trips to %g sites (%.0f truck hours)", it->string, num(it, "trips"),
+                     num(it, "sites"), num(it, "truck_hours"));
+            sb_list_item(&list, k++, p);
+        }
+    }
+    figure(&c->figures, val, "trips per depot", list.s ? list.s : "no trips");
+    snprintf(val, sizeof val, "%zu", un->rows);
+    {
+        const cJSON *bc = cJSON_GetObjectItemCaseSensitive(tot, "by_commodity");
+        det[0] = '\0';
+        cJSON_ArrayForEach(it, bc) if (num(it, "short") > 0)
+        {
+            char p[64];
+            fmt_people(num(it, "short"), p, sizeof p);
+            snprintf(det + strlen(det), sizeof det - strlen(det), "%s%s %s %s short", det[0] ? "; " : "",
+                     it->string, p, str(it, "unit") ? str(it, "unit") : "");
+        }
+    }
+    figure(&c->figures, val, "supply lines short (site and commodity)", det[0] ? det : "every site gets all it needs");
+
+    /* Map: depots, sites and shipments weighted by trips. */
+    sb_str(&c->body, "<section class=\"page\"><h2 id=\"supply\">Supply: shipments and stock</h2>\n");
+    {
+        int cd = csv_col(sh, "depot_id"), cs = csv_col(sh, "site_id"), ct = csv_col(sh, "trips");
+        size_t miss = 0;
+        render_map_t *m = NULL;
+        const char **dl = calloc(sh->rows + 1, sizeof *dl), **sl = calloc(sh->rows + 1, sizeof *sl);
+        int rw, rh;
+        x1 = calloc(sh->rows + 1, sizeof *x1);
+        y1 = calloc(sh->rows + 1, sizeof *y1);
+        x2 = calloc(sh->rows + 1, sizeof *x2);
+        y2 = calloc(sh->rows + 1, sizeof *y2);
+        trips = calloc(sh->rows + 1, sizeof *trips);
+        dx = calloc(sh->rows + 1, sizeof *dx);
+        dy = calloc(sh->rows + 1, sizeof *dy);
+        sx = calloc(sh->rows + 1, sizeof *sx);
+        sy = calloc(sh->rows + 1, sizeof *sy);
+        depots = calloc(sh->rows + 1, sizeof *depots);
+        if (!dl || !sl || !x1 || !y1 || !x2 || !y2 || !trips || !dx || !dy || !sx || !sy || !depots) {
+            free(dl);
+            free(sl);
+            rc = err_set(e, ERR_NOMEM, "out of memory reading '%s'", shp);
+            goto done;
+        }
+        for (size_t r = 0; r < sh->rows; r++) {
+            const char *d = csv_get(sh, r, cd), *st = csv_get(sh, r, cs);
+            double t = csv_num(sh, r, ct);
+            if (point_xy(c, 2, d, &x1[nf], &y1[nf]) != 0 || point_xy(c, -1, st, &x2[nf], &y2[nf]) != 0) {
+                miss++;
+                continue;
+            }
+            trips[nf] = isfinite(t) ? t : 0;
+            if (trips[nf] > tmax) tmax = trips[nf];
+            if (name_index(depots, &ndp, d) == ndp - 1 && ndp - 1 == nd) {
+                dx[nd] = x1[nf];
+                dy[nd] = y1[nf];
+                dl[nd++] = d;
+            }
+            {
+                size_t before = nsp;
+                sl[nsp] = st;
+                for (size_t q = 0; q < before; q++)
+                    if (strcmp(sl[q], st) == 0) sl[nsp] = NULL;
+                if (sl[nsp]) {
+                    sx[nsp] = x2[nf];
+                    sy[nsp] = y2[nf];
+                    nsp++;
+                }
+            }
+            nf++;
+        }
+        rc = map_open(c, "Shipments from depots to sites", &m, &rw, &rh, e);
+        if (rc == ERR_OK) {
+            char note_[96];
+            render_map_roads(m, c->roads);
+            render_map_outlines(m, c->districts, 0);
+            render_map_flows(m, nf, x1, y1, x2, y2, trips, tmax, 12, flow);
+            render_map_points(m, nsp, sx, sy, NULL, 0, 5, &sitec, 1);
+            render_map_points(m, nd, dx, dy, NULL, 0, 9, &depc, 1);
+            render_map_labels(m, nsp, sx, sy, sl);
+            render_map_labels(m, nd, dx, dy, dl);
+            render_legend_title(m, "Shipments");
+            render_legend_line(m, flow, 12, "most trips");
+            snprintf(note_, sizeof note_, "Line width \xe2\x88\x9d trips (widest: %g).", tmax);
+            render_legend_line(m, flow, 12 * sqrt(0.25), "fewer trips");
+            render_legend_note(m, note_);
+            render_legend_title(m, "Features");
+            render_legend_point(m, depc, 9, 0, "depot");
+            render_legend_point(m, sitec, 5, 0, "site supplied");
+            map_furniture_legend(c, m);
+            rc = map_close(c, m, "supply_shipments.png", "Map of shipments from depots to sites, line width by trips",
+                           "Shipments: a straight line from each depot to each site it supplies (road routes differ); width grows with the number of trips.",
+                           e);
+        }
+        render_map_free(m);
+        free(dl);
+        free(sl);
+        if (miss > 0) note(c, "%zu shipments not drawn on the map: their depot or site position was not found in the scenario's layers", miss);
+        if (rc != ERR_OK) goto done;
+    }
+
+    /* Stacked bars: shipping weight per site by commodity (one unit for all). */
+    if (ns > 0 && nc > 0 && nc <= 12) {
+        charts_stack_t cs = {0};
+        cs.title = "Stock delivered to each site, by commodity";
+        cs.unit = "kg (shipping weight)";
+        cs.n_groups = ns;
+        cs.groups = sites;
+        cs.n_series = nc;
+        cs.series = comms;
+        cs.values = vals;
+        cs.palette = CHARTS_CATEGORIES;
+        rc = charts_stacked_bars(png, &cs, NULL, e);
+        if (rc == ERR_OK)
+            rc = embed(c, png, "Bar chart of stock delivered to each site by commodity",
+                       "Stock delivered to each site, by commodity, as shipping weight in kg so commodities of different units stack.",
+                       e);
+        if (rc != ERR_OK) goto done;
+    }
+
+    /* Table: stock per site (delivered of needed, each commodity in its unit). */
+    {
+        int cs = csv_col(stk, "site_id"), cn = csv_col(stk, "site_name"), cc = csv_col(stk, "commodity"),
+            cu = csv_col(stk, "unit"), cne = csv_col(stk, "needed"), cde = csv_col(stk, "delivered"),
+            csh = csv_col(stk, "short");
+        sb_str(&c->body, "<h3>Stock per site</h3>\n<div class=\"scroll\"><table>\n<thead><tr><th>site</th><th>name</th><th>commodity</th>"
+                         "<th class=\"n\">needed</th><th class=\"n\">delivered</th><th class=\"n\">short</th><th>unit</th></tr></thead>\n<tbody>\n");
+        for (size_t r = 0; r < stk->rows; r++) {
+            double shv = csh >= 0 ? csv_num(stk, r, csh) : 0;
+            sb_str(&c->body, shv > 0 ? "<tr class=\"over\"><td>" : "<tr><td>");
+            sb_esc(&c->body, csv_get(stk, r, cs));
+            sb_str(&c->body, "</td><td>");
+            if (cn >= 0) sb_esc(&c->body, csv_get(stk, r, cn));
+            sb_str(&c->body, "</td><td>");
+            sb_esc(&c->body, csv_get(stk, r, cc));
+            sb_str(&c->body, "</td><td class=\"n\">");
+            sb_people(&c->body, cne >= 0 ? csv_num(stk, r, cne) : NAN);
+            sb_str(&c->body, "</td><td class=\"n\">");
+            sb_people(&c->body, cde >= 0 ? csv_num(stk, r, cde) : NAN);
+            sb_str(&c->body, "</td><td class=\"n\">");
+            sb_people(&c->body, shv);
+            sb_str(&c->body, "</td><td>");
+            if (cu >= 0) sb_esc(&c->body, csv_get(stk, r, cu));
+            sb_str(&c->body, "</td></tr>\n");
+        }
+        sb_str(&c->body, "</tbody></table></div>\n");
+    }
+    /* Table: shortages with reasons. */
+    sb_str(&c->body, "<h3 id=\"shortages\">Shortages</h3>\n");
+    if (un->rows == 0) {
+        sb_str(&c->body, "<p>None: every site gets all it needs.</p>\n");
+    } else {
+        int cs = csv_col(un, "site_id"), cn = csv_col(un, "site_name"), cc = csv_col(un, "commodity"),
+            cu = csv_col(un, "unit"), csh = csv_col(un, "short"), cp = csv_col(un, "people_short"),
+            cr = csv_col(un, "reason"), cw = csv_col(un, "what_to_do");
+        sb_str(&c->body, "<div class=\"scroll\"><table>\n<thead><tr><th>site</th><th>name</th><th>commodity</th>"
+                         "<th class=\"n\">short</th><th>unit</th><th class=\"n\">people affected</th><th>reason</th><th>what to do</th></tr></thead>\n<tbody>\n");
+        for (size_t r = 0; r < un->rows; r++) {
+            sb_str(&c->body, "<tr><td>");
+            sb_esc(&c->body, csv_get(un, r, cs));
+            sb_str(&c->body, "</td><td>");
+            if (cn >= 0) sb_esc(&c->body, csv_get(un, r, cn));
+            sb_str(&c->body, "</td><td>");
+            sb_esc(&c->body, csv_get(un, r, cc));
+            sb_str(&c->body, "</td><td class=\"n\">");
+            sb_people(&c->body, csv_num(un, r, csh));
+            sb_str(&c->body, "</td><td>");
+            if (cu >= 0) sb_esc(&c->body, csv_get(un, r, cu));
+            sb_str(&c->body, "</td><td class=\"n\">");
+            sb_people(&c->body, cp >= 0 ? csv_num(un, r, cp) : NAN);
+            sb_str(&c->body, "</td><td>");
+            sb_esc(&c->body, csv_get(un, r, cr));
+            sb_str(&c->body, "</td><td>");
+            if (cw >= 0) sb_esc(&c->body, csv_get(un, r, cw));
+            sb_str(&c->body, "</td></tr>\n");
+        }
+        sb_str(&c->body, "</tbody></table></div>\n");
+    }
+    sb_str(&c->body, "</section>\n");
+
+    /* Assumptions: rations, days of cover, buffer, the ration caution. */
+    sb_str(&c->assumptions, "<li>Supply rations:");
+    {
+        size_t k = 0;
+        cJSON_ArrayForEach(it, cJSON_GetObjectItemCaseSensitive(as, "commodities"))
+        {
+            sb_str(&c->assumptions, k++ ? "; " : " ");
+            sb_esc(&c->assumptions, str(it, "name") ? str(it, "name") : "?");
+            sb_fmt(&c->assumptions, " %.4g ", num(it, "quantity"));
+            sb_esc(&c->assumptions, str(it, "unit") ? str(it, "unit") : "");
+            sb_str(&c->assumptions, " ");
+            sb_esc(&c->assumptions, str(it, "rate") ? str(it, "rate") : "");
+        }
+    }
+    sb_fmt(&c->assumptions, ". Days of cover %g, lead time %g days, buffer %.0f%%.</li>\n",
+           num(as, "days_of_cover"), num(as, "lead_time_days"), 100 * num(as, "buffer"));
+    if (sol) {
+        sb_str(&c->assumptions, "<li>Supply plan: solver status ");
+        sb_esc(&c->assumptions, str(sol, "status") ? str(sol, "status") : "?");
+        sb_fmt(&c->assumptions, ", gap %.2f%% (asked for %.2f%%).</li>\n", 100 * num(sol, "gap"),
+               100 * num(sol, "requested_gap"));
+    }
+    if (caution) {
+        sb_str(&c->assumptions, "<li class=\"ration-caution\"><strong>Rations:</strong> ");
+        sb_esc(&c->assumptions, caution);
+        sb_str(&c->assumptions, "</li>\n");
+    }
+done:
+    free(dir);
+    free(shp);
+    free(stp);
+    free(unp);
+    free(png);
+    free(x1);
+    free(y1);
+    free(x2);
+    free(y2);
+    free(trips);
+    free(vals);
+    free(dx);
+    free(dy);
+    free(sx);
+    free(sy);
+    free(sites);
+    free(comms);
+    free(depots);
+    free(list.s);
+    csv_free(sh);
+    csv_free(stk);
+    csv_free(un);
+    return rc;
+}
+
+
+/* ---- section: compare (what-if variants) -------------------------------- */
+
+static int section_compare(rctx_t *c, const cJSON *s, err_t *e)
+{
+    enum { MAX_MAPS = 8 };
+    const cJSON *vars = cJSON_GetObjectItemCaseSensitive(s, "variants"), *it;
+    const cJSON *base = cJSON_GetObjectItemCaseSensitive(s, "base");
+    double limit = num(s, "limit_min"), total = num(s, "people_total");
+    size_t n = (size_t)cJSON_GetArraySize(vars), k = 0, worst = 0, n_maps = 0;
+    const char **names = NULL;
+    double *pushed = NULL;
+    const cJSON **byrank = NULL;
+    char *png = NULL, val[128], det[400], lab[160];
+    static const double steps[] = {5, 15, 30, 60};
+    int rc = ERR_OK;
+
+    if (n == 0 || !isfinite(limit))
+        return err_set(e, ERR_INPUT, "summary.json in '%s': the compare part lacks variants or limit_min; run compare again",
+                       c->outdir);
+    names = calloc(n, sizeof *names);
+    pushed = calloc(n, sizeof *pushed);
+    byrank = calloc(n, sizeof *byrank);
+    png = out_join(c->mapdir, "variants_pushed.png");
+    if (!names || !pushed || !byrank || !png) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    cJSON_ArrayForEach(it, vars)
+    {
+        names[k] = str(it, "name") ? str(it, "name") : "?";
+        pushed[k] = isfinite(num(it, "pushed_beyond_limit")) ? num(it, "pushed_beyond_limit") : 0;
+        if (pushed[k] > pushed[worst]) worst = k;
+        byrank[k] = it;
+        k++;
+    }
+    /* Ranking order (rank 1 first); variants without a rank keep their order. */
+    for (size_t i = 1; i < n; i++)
+        for (size_t j = i; j > 0 && num(byrank[j - 1], "rank") > num(byrank[j], "rank"); j--) {
+            const cJSON *t = byrank[j];
+            byrank[j] = byrank[j - 1];
+            byrank[j - 1] = t;
+        }
+
+    /* Key figures. */
+    if (isfinite(total) && total > 0) {
+        snprintf(val, sizeof val, "%.0f%%", 100 * num(base, "people_within_limit") / total);
+        snprintf(lab, sizeof lab, "of people within %g min as things are", limit);
+        fmt_people(num(base, "people_within_limit"), det, sizeof det);
+        snprintf(det + strlen(det), sizeof det - strlen(det), " people, %g sites open", num(base, "sites_open"));
+        figure(&c->figures, val, lab, det);
+    }
+    fmt_people(pushed[worst], val, sizeof val);
+    snprintf(lab, sizeof lab, "people pushed beyond %g min in the worst case", limit);
+    snprintf(det, sizeof det, "variant '%s'", names[worst]);
+    figure(&c->figures, val, lab, det);
+    snprintf(val, sizeof val, "%zu", n);
+    det[0] = '\0';
+    for (size_t i = 0; i < n; i++) {
+        char p[64];
+        fmt_people(num(byrank[i], "pushed_beyond_limit"), p, sizeof p);
+        snprintf(det + strlen(det), sizeof det - strlen(det), "%s%g. %s (%s)", i ? ", " : "", num(byrank[i], "rank"),
+                 str(byrank[i], "name") ? str(byrank[i], "name") : "?", p);
+    }
+    figure(&c->figures, val, "variants compared, worst first", det);
+
+    /* Maps: minutes gained or lost, one per variant. */
+    sb_str(&c->body, "<section class=\"page\"><h2 id=\"variants\">What if: variants compared</h2>\n");
+    load_points(c);
+    for (size_t i = 0; i < n && rc == ERR_OK; i++) {
+        const cJSON *v = byrank[i], *files = cJSON_GetObjectItemCaseSensitive(v, "files");
+        const char *dm = str(files, "delta_minutes");
+        char *tif = NULL, file[96], title[200], caption[300];
+        render_map_t *m = NULL;
+        render_scale_t sc;
+        float *vals = NULL, *mask = NULL;
+        int rw, rh;
+        if (dm == NULL) continue;
+        if (n_maps == MAX_MAPS) {
+            note(c, "maps drawn for the first %d variants only; the others are in the ranking table", MAX_MAPS);
+            break;
+        }
+        tif = out_join(c->outdir, dm);
+        if (tif == NULL) {
+            rc = err_set(e, ERR_NOMEM, "out of memory");
+            break;
+        }
+        rc = ensure_grid(c, tif, e);
+        if (rc == ERR_OK) {
+            load_vectors(c);
+            rc = render_scale_diverging(&sc, steps, sizeof steps / sizeof steps[0], e);
+        }
+        snprintf(title, sizeof title, "Minutes gained or lost: %s", str(v, "name") ? str(v, "name") : "?");
+        if (rc == ERR_OK) rc = map_open(c, title, &m, &rw, &rh, e);
+        if (rc == ERR_OK) rc = render_read_band(tif, rw, rh, RENDER_AVERAGE, &vals, e);
+        if (rc == ERR_OK) {
+            const points_t *ex = c->pts[0];
+            render_rgb_t dark = {0.10, 0.10, 0.12};
+            render_map_raster(m, vals, rw, rh, &sc);
+            mask = population_mask(c, rw, rh);
+            if (mask) render_map_blank(m, mask, rw, rh);
+            render_map_roads(m, c->roads);
+            render_map_outlines(m, c->districts, 0);
+            if (ex) {
+                render_map_points(m, ex->n, ex->x, ex->y, NULL, 0, ex->n > 200 ? 1.8 : 5, &dark, 1);
+                render_map_labels(m, ex->n, ex->x, ex->y, (const char *const *)ex->id);
+            }
+            render_legend_title(m, "Change in travel time (min)");
+            render_legend_scale(m, &sc);
+            render_legend_note(m, "Blue: faster. Brown: slower.");
+            render_legend_title(m, "Features");
+            if (ex) render_legend_point(m, dark, 5, 0, "site");
+            map_furniture_legend(c, m);
+            if (mask) render_legend_note(m, "Blank: no population data.");
+            snprintf(file, sizeof file, "variant_%zu.png", i + 1);
+            snprintf(caption, sizeof caption, "Variant '%s': minutes to the nearest site, variant minus as things are. ",
+                     str(v, "name") ? str(v, "name") : "?");
+            fmt_people(num(v, "pushed_beyond_limit"), val, sizeof val);
+            snprintf(caption + strlen(caption), sizeof caption - strlen(caption),
+                     "%s people pushed beyond %g min.", val, limit);
+            rc = map_close(c, m, file, "Map of minutes gained or lost in a variant", caption, e);
+            n_maps++;
+        }
+        free(vals);
+        free(mask);
+        free(tif);
+        render_map_free(m);
+    }
+    if (rc != ERR_OK) goto done;
+    rc = charts_bars(png, "People pushed beyond the limit, by variant", "people", n, names, pushed, NULL, e);
+    if (rc == ERR_OK)
+        rc = embed(c, png, "Bar chart of people pushed beyond the limit in each variant",
+                   "People who were within the limit as things are and are beyond it in each variant.", e);
+    if (rc != ERR_OK) goto done;
+    sb_str(&c->body, "<h3>Ranking</h3>\n<div class=\"scroll\"><table>\n<thead><tr><th class=\"n\">rank</th><th>variant</th>"
+                     "<th class=\"n\">within limit</th><th class=\"n\">pushed beyond</th><th class=\"n\">gained</th>"
+                     "<th class=\"n\">cut off</th><th class=\"n\">added person-hours</th><th class=\"n\">sites newly over capacity</th></tr></thead>\n<tbody>\n");
+    for (size_t i = 0; i < n; i++) {
+        const cJSON *v = byrank[i];
+        sb_fmt(&c->body, "<tr><td class=\"n\">%g</td><td>", num(v, "rank"));
+        sb_esc(&c->body, str(v, "name") ? str(v, "name") : "?");
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "people_within_limit"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "pushed_beyond_limit"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "gained_within_limit"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "cut_off"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(v, "added_person_hours"));
+        sb_fmt(&c->body, "</td><td class=\"n\">%g</td></tr>\n", num(v, "sites_newly_over_capacity"));
+    }
+    sb_str(&c->body, "</tbody></table></div>\n</section>\n");
+    sb_fmt(&c->assumptions, "<li>Variants: each changes roads, speeds or sites as its scenario entry says; "
+                            "the limit is %g min; minutes are variant minus as things are.</li>\n", limit);
+done:
+    free(names);
+    free(pushed);
+    free(byrank);
+    free(png);
+    return rc;
+}
+
+/* ---- section: links (critical roads) ------------------------------------ */
+
+static int section_links(rctx_t *c, const cJSON *s, err_t *e)
+{
+    const cJSON *files = cJSON_GetObjectItemCaseSensitive(s, "files");
+    const cJSON *top = cJSON_GetObjectItemCaseSensitive(s, "top"), *it;
+    double limit = num(s, "limit_min"), smax = 0;
+    char *gp = NULL, val[128], det[600];
+    render_lines_t *sc = NULL, *ids = NULL;
+    double *score = NULL, *lx = NULL, *ly = NULL;
+    const char **lab = NULL;
+    size_t *idx = NULL, nl = 0;
+    render_map_t *m = NULL;
+    int rw, rh, rc = ERR_OK;
+
+    gp = out_join(c->outdir, str(files, "links") ? str(files, "links") : "links.gpkg");
+    if (gp == NULL) return err_set(e, ERR_NOMEM, "out of memory");
+    rc = ensure_grid(c, NULL, e);
+    if (rc != ERR_OK) goto done;
+    load_vectors(c);
+    /* The score rides in the name slot: the loader keeps one text per line. */
+    rc = render_lines_load(gp, "links", "class", "pushed_beyond_limit", c->wkt, &sc, e);
+    if (rc == ERR_OK) rc = render_lines_load(gp, "links", "class", "road_id", c->wkt, &ids, e);
+    if (rc != ERR_OK) goto done;
+    if (sc->n != ids->n) {
+        rc = err_set(e, ERR_INPUT, "'%s' changed while it was read; run links again", gp);
+        goto done;
+    }
+    score = calloc(sc->n + 1, sizeof *score);
+    idx = calloc(sc->n + 1, sizeof *idx);
+    lx = calloc(sc->n + 1, sizeof *lx);
+    ly = calloc(sc->n + 1, sizeof *ly);
+    lab = calloc(sc->n + 1, sizeof *lab);
+    if (!score || !idx || !lx || !ly || !lab) {
+        rc = err_set(e, ERR_NOMEM, "out of memory");
+        goto done;
+    }
+    for (size_t i = 0; i < sc->n; i++) {
+        score[i] = sc->name[i] ? strtod(sc->name[i], NULL) : 0;
+        if (!isfinite(score[i]) || score[i] < 0) score[i] = 0;
+        if (score[i] > smax) smax = score[i];
+    }
+    order_desc(score, sc->n, idx);
+
+    /* Key figures. */
+    {
+        const cJSON *t0 = cJSON_GetArrayItem(top, 0);
+        fmt_people(num(t0, "pushed_beyond_limit"), val, sizeof val);
+        snprintf(det, sizeof det, "if road %s (%s%s) is cut; %g links scored", str(t0, "road_id") ? str(t0, "road_id") : "?",
+                 str(t0, "class") ? str(t0, "class") : "?", cJSON_IsTrue(cJSON_GetObjectItemCaseSensitive(t0, "bridge")) ? ", bridge" : "",
+                 num(s, "links_scored"));
+        figure(&c->figures, val, "people pushed beyond the limit by the most critical road", det);
+    }
+
+    /* Map: each scored link, width and colour by people pushed beyond. */
+    sb_str(&c->body, "<section class=\"page\"><h2 id=\"links\">Critical roads</h2>\n");
+    rc = map_open(c, "Critical roads: people pushed beyond the limit if cut", &m, &rw, &rh, e);
+    if (rc != ERR_OK) goto done;
+    render_map_roads(m, c->roads);
+    render_map_outlines(m, c->districts, 0);
+    for (size_t r = sc->n; r-- > 0;) {   /* least critical first, the worst on top */
+        size_t i = idx[r];
+        render_lines_t one = {1, &sc->start[i], sc->x, sc->y, &sc->rank[i], &sc->name[i]};
+        double t = smax > 0 ? score[i] / smax : 0;
+        if (score[i] <= 0) continue;
+        render_map_highlight(m, &one, render_ramp_warm(0.35 + 0.65 * sqrt(t)), 2 + 8 * sqrt(t));
+    }
+    for (size_t r = 0; r < sc->n && r < 10; r++) {
+        size_t i = idx[r], a = sc->start[i], b = sc->start[i + 1];
+        if (score[i] <= 0 || b <= a) continue;
+        lx[nl] = sc->x[(a + b) / 2];
+        ly[nl] = sc->y[(a + b) / 2];
+        lab[nl++] = ids->name[i] ? ids->name[i] : "?";
+    }
+    render_map_labels(m, nl, lx, ly, lab);
+    render_legend_title(m, "Pushed beyond the limit if cut");
+    {
+        char l1[200], l2[200];
+        fmt_people(smax, val, sizeof val);
+        snprintf(l1, sizeof l1, "%s people (most critical)", val);
+        fmt_people(smax / 4, val, sizeof val);
+        snprintf(l2, sizeof l2, "%s people", val);
+        render_legend_line(m, render_ramp_warm(1.0), 10, l1);
+        render_legend_line(m, render_ramp_warm(0.35 + 0.65 * 0.5), 6, l2);
+    }
+    render_legend_note(m, "Labelled: the ten most critical.");
+    render_legend_title(m, "Features");
+    map_furniture_legend(c, m);
+    rc = map_close(c, m, "critical_roads.png", "Map of critical roads, width and colour by people pushed beyond the limit",
+                   "Critical roads: each road link drawn wider and darker the more people would be pushed beyond the limit if it were cut; unmarked roads push nobody beyond it.",
+                   e);
+    if (rc != ERR_OK) goto done;
+    sb_str(&c->body, "<h3>The ten most critical roads</h3>\n<div class=\"scroll\"><table>\n<thead><tr><th class=\"n\">rank</th><th>road</th><th>class</th>"
+                     "<th>bridge</th><th class=\"n\">pushed beyond</th><th class=\"n\">cut off</th><th class=\"n\">added person-hours</th></tr></thead>\n<tbody>\n");
+    cJSON_ArrayForEach(it, top)
+    {
+        sb_fmt(&c->body, "<tr><td class=\"n\">%g</td><td>", num(it, "rank"));
+        sb_esc(&c->body, str(it, "road_id") ? str(it, "road_id") : "?");
+        sb_str(&c->body, "</td><td>");
+        sb_esc(&c->body, str(it, "class") ? str(it, "class") : "");
+        sb_str(&c->body, cJSON_IsTrue(cJSON_GetObjectItemCaseSensitive(it, "bridge")) ? "</td><td>yes" : "</td><td>no");
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(it, "pushed_beyond_limit"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(it, "cut_off"));
+        sb_str(&c->body, "</td><td class=\"n\">");
+        sb_people(&c->body, num(it, "added_person_hours"));
+        sb_str(&c->body, "</td></tr>\n");
+    }
+    sb_str(&c->body, "</tbody></table></div>\n</section>\n");
+    sb_fmt(&c->assumptions, "<li>Critical roads: each road link is cut on its own and people whose time "
+                            "to the nearest site passes %g min are counted.</li>\n", limit);
+done:
+    free(gp);
+    free(score);
+    free(idx);
+    free(lx);
+    free(ly);
+    free(lab);
+    render_lines_free(sc);
+    render_lines_free(ids);
+    render_map_free(m);
+    return rc;
+}
+
 /* ---- sections --------------------------------------------------------- */
 
 typedef struct section {
@@ -1059,6 +1965,10 @@ typedef struct section {
  * {"compare", section_compare}: each draws with render/charts and appends. */
 static const section_t sections[] = {
     {"reach", section_reach},
+    {"site", section_site},
+    {"supply", section_supply},
+    {"compare", section_compare},
+    {"links", section_links},
 };
 
 static void assumptions_common(rctx_t *c)
@@ -1253,7 +2163,7 @@ int report_write(const char *outdir, report_result_t *res, err_t *e)
     for (size_t i = 0; i < sizeof sections / sizeof sections[0]; i++)
         if (cJSON_IsObject(cJSON_GetObjectItemCaseSensitive(c.sum, sections[i].key))) n_sections++;
     if (n_sections == 0) {
-        rc = err_set(e, ERR_INPUT, "'%s' holds no results to report (no reach part); run 'sitereach reach' into '%s' first",
+        rc = err_set(e, ERR_INPUT, "'%s' holds no results to report (no reach, site, supply, compare or links part); run 'sitereach reach' or 'plan' into '%s' first",
                      sp, outdir);
         goto done;
     }
@@ -1298,6 +2208,8 @@ done:
     free(c.assumptions.s);
     render_lines_free(c.roads);
     render_lines_free(c.districts);
+    for (int k = 0; k < 3; k++) points_free(c.pts[k]);
+    grid_free(c.pgrid);
     scen_free(c.scen);
     cJSON_Delete(c.sum);
     return rc;

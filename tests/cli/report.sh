@@ -70,6 +70,141 @@ PYEOF
     expect_ok "$BIN" report "$WORK/demo" --quiet
     if [ -s "$WORK/out" ]; then bad "report --quiet printed: $(cat "$WORK/out")"; else ok; fi
 
+    # The plan report: site selection and supply sections with their key
+    # figures (from summary.json and the CSVs beside it), maps and charts.
+    expect_ok "$BIN" plan scenarios/demo/scenario.json -o "$WORK/plan" --quiet
+    expect_ok "$BIN" report "$WORK/plan" --json
+    $PY - "$WORK/plan" "$WORK/out" <<'PYEOF' && ok || bad "plan: site and supply sections"
+import json, sys, os, csv, base64, struct
+import xml.etree.ElementTree as ET
+d = sys.argv[1]
+j = json.load(open(sys.argv[2]))
+s = json.load(open(os.path.join(d, "summary.json")))
+text = open(os.path.join(d, "report.html"), encoding="utf-8").read()
+root = ET.fromstring(text.split("\n", 1)[1])
+ns = {"h": "http://www.w3.org/1999/xhtml"}
+alltext = " ".join(root.itertext())
+site = s["site"]
+# people covered before -> after, as shares and as people
+for v in (site["before"]["share"], site["after"]["share"]):
+    assert "%.0f%%" % (100 * v) in alltext, v
+for v in (site["before"]["people_covered"], site["after"]["people_covered"]):
+    assert "{:,.0f}".format(v) in alltext, v
+# every new site to open is named with its id and name
+new = [r for r in csv.DictReader(open(os.path.join(d, site["folder"], "sites.csv"))) if r["status"] == "new"]
+assert new
+for r in new:
+    assert r["id"] + " " + r["name"] in alltext, r["id"]
+assert "sites to open" in alltext
+assert "gap" in alltext and site["status"] in alltext
+# supply: tonnes delivered, trips per depot, shortage reasons, ration caution
+sup = s["supply"]
+assert "{:,.0f} t".format(sup["totals"]["kg_delivered"] / 1000) in alltext
+for dep, v in sup["totals"]["by_depot"].items():
+    assert "%s %g trips" % (dep, v["trips"]) in alltext, dep
+assert "trips per depot" in alltext
+unmet = list(csv.DictReader(open(os.path.join(d, "supply_unmet.csv"))))
+assert len(unmet) > 0
+for r in unmet:
+    assert r["what_to_do"] in alltext
+assert sup["caution"] in alltext
+assert "Days of cover %g" % sup["assumptions"]["days_of_cover"] in alltext
+assert "buffer %.0f%%" % (100 * sup["assumptions"]["buffer"]) in alltext
+# stock per site: every site of the stock table appears in the stock table rows
+for r in csv.DictReader(open(os.path.join(d, "supply_stock.csv"))):
+    assert r["site_id"] in alltext
+# images: 4 reach + chosen sites, coverage curve, shipments, stock chart
+names = [os.path.basename(p) for p in j["images"]]
+for want in ("sites_chosen.png", "coverage_curve.png", "supply_shipments.png", "stock_by_site.png"):
+    assert want in names, names
+imgs = root.findall(".//h:img", ns)
+assert len(imgs) == 8, len(imgs)
+for im in imgs:
+    png = base64.b64decode(im.get("src").split(",", 1)[1])
+    assert png[:8] == b"\x89PNG\r\n\x1a\n"
+assert j["notes"] == [], j["notes"]
+# section order: key figures, reach, chosen sites, supply, assumptions
+assert alltext.index("Key figures") < alltext.index("Chosen sites") < alltext.index("Supply: shipments") < alltext.index("Assumptions")
+PYEOF
+
+    # What-if reports on the compare and links folders (those commands do not
+    # write a report themselves): variants ranked with their minutes maps, the
+    # critical roads with their top-10 table.
+    expect_ok "$BIN" compare scenarios/demo/scenario.json -o "$WORK/cmp" --quiet
+    expect_ok "$BIN" report "$WORK/cmp" --json
+    $PY - "$WORK/cmp" "$WORK/out" <<'PYEOF' && ok || bad "compare report"
+import json, sys, os, csv
+import xml.etree.ElementTree as ET
+d = sys.argv[1]
+j = json.load(open(sys.argv[2]))
+s = json.load(open(os.path.join(d, "summary.json")))
+text = open(os.path.join(d, "report.html"), encoding="utf-8").read()
+alltext = " ".join(ET.fromstring(text.split("\n", 1)[1]).itertext())
+vs = s["compare"]["variants"]
+worst = max(vs, key=lambda v: v["pushed_beyond_limit"])
+assert "{:,.0f}".format(worst["pushed_beyond_limit"]) in alltext
+assert "variant '%s'" % worst["name"] in alltext
+for v in vs:
+    assert "Variant '%s': minutes to the nearest site" % v["name"] in alltext, v["name"]
+rows = list(csv.DictReader(open(os.path.join(d, "compare.csv"))))
+assert "Ranking" in alltext
+names = [os.path.basename(p) for p in j["images"]]
+assert names == ["variant_%d.png" % (i + 1) for i in range(len(vs))] + ["variants_pushed.png"], names
+assert text.count("data:image/png;base64,") == len(vs) + 1
+assert j["notes"] == [], j["notes"]
+assert len(rows) == len(vs)
+PYEOF
+    expect_ok "$BIN" links scenarios/demo/scenario.json -o "$WORK/lnk" --quiet
+    expect_ok "$BIN" report "$WORK/lnk" --json
+    $PY - "$WORK/lnk" "$WORK/out" <<'PYEOF' && ok || bad "links report"
+import json, sys, os
+import xml.etree.ElementTree as ET
+d = sys.argv[1]
+j = json.load(open(sys.argv[2]))
+s = json.load(open(os.path.join(d, "summary.json")))
+text = open(os.path.join(d, "report.html"), encoding="utf-8").read()
+alltext = " ".join(ET.fromstring(text.split("\n", 1)[1]).itertext())
+top = s["links"]["top"]
+assert len(top) == 10
+for t in top:
+    assert t["road_id"] in alltext, t["road_id"]
+assert "{:,.0f}".format(top[0]["pushed_beyond_limit"]) in alltext
+assert "The ten most critical roads" in alltext
+assert [os.path.basename(p) for p in j["images"]] == ["critical_roads.png"]
+assert j["notes"] == [], j["notes"]
+PYEOF
+
+    # Refusals of the new sections: tables from an older version, an empty
+    # compare part; a missing depot layer is noted and the map drawn without it.
+    cp -r "$WORK/plan" "$WORK/plan2"
+    cut -d, -f1-3 "$WORK/plan/site/sites.csv" >"$WORK/plan2/site/sites.csv"
+    expect_fail 1 "lacks the columns id, status, people_served" "$BIN" report "$WORK/plan2"
+    cp "$WORK/plan/site/sites.csv" "$WORK/plan2/site/sites.csv"
+    cut -d, -f1-3 "$WORK/plan/supply_shipments.csv" >"$WORK/plan2/supply_shipments.csv"
+    expect_fail 1 "supply_shipments.csv' lacks a column the report needs (depot_id, site_id, trips)" "$BIN" report "$WORK/plan2"
+    rm "$WORK/plan2/supply_unmet.csv"
+    cp "$WORK/plan/supply_shipments.csv" "$WORK/plan2/supply_shipments.csv"
+    expect_fail 1 "supply_unmet.csv" "$BIN" report "$WORK/plan2"
+    cp -r "$WORK/cmp" "$WORK/cmp2"
+    $PY - "$WORK/cmp2/summary.json" <<'PYEOF'
+import json, sys
+p = sys.argv[1]
+s = json.load(open(p))
+s["compare"]["variants"] = []
+json.dump(s, open(p, "w"))
+PYEOF
+    expect_fail 1 "the compare part lacks variants or limit_min" "$BIN" report "$WORK/cmp2"
+    cp -r "$WORK/plan" "$WORK/plan3"
+    $PY - "$WORK/plan3/summary.json" <<'PYEOF'
+import json, sys
+p = sys.argv[1]
+s = json.load(open(p))
+s["scenario"] = "/nonexistent/scenario.json"
+json.dump(s, open(p, "w"))
+PYEOF
+    expect_ok "$BIN" report "$WORK/plan3"
+    expect_out "site and depot positions left off the maps"
+
     # A road layer that has gone missing is left off the maps and noted, not fatal;
     # sites.csv from before the x, y columns is refused with advice.
     cp -r "$WORK/demo" "$WORK/moved"

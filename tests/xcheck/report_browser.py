@@ -3,6 +3,8 @@
 Usage: report_browser.py WORKDIR OUTDIR...
 The PNG screenshot is decoded with zlib here (python3-pil may be absent).
 """
+import csv
+import html as htmllib
 import json
 import os
 import re
@@ -77,20 +79,52 @@ def people(v):
     return "{:,.0f}".format(v)
 
 
+def html_text(t):
+    """Text as Chromium serialises it in --dump-dom (&, <, > escaped)."""
+    return htmllib.escape(t, quote=False)
+
+
 def one(work, out):
     name = os.path.basename(out)
     html = os.path.join(out, "report.html")
     url = "file://" + os.path.abspath(html)
     s = json.load(open(os.path.join(out, "summary.json")))
-    r = s["reach"]
+    text = open(html, encoding="utf-8").read()
 
     dom = chromium(["--dump-dom"], url)
     check("Key figures" in dom, name + ": DOM lacks the key figures heading")
-    pct = "%.0f%%" % (100 * r["people_within_limit"] / r["people_total"])
-    check(pct in dom, name + ": DOM lacks the share within the limit " + pct)
-    check(people(r["people_beyond_limit"]) in dom, name + ": DOM lacks people beyond the limit")
-    check("sites over capacity" in dom, name + ": DOM lacks sites over capacity")
-    check(dom.count("data:image/png;base64,") == 4, name + ": DOM lacks its four images")
+    if "reach" in s:
+        r = s["reach"]
+        pct = "%.0f%%" % (100 * r["people_within_limit"] / r["people_total"])
+        check(pct in dom, name + ": DOM lacks the share within the limit " + pct)
+        check(people(r["people_beyond_limit"]) in dom, name + ": DOM lacks people beyond the limit")
+        check("sites over capacity" in dom, name + ": DOM lacks sites over capacity")
+    if "site" in s:
+        site = s["site"]
+        check("sites to open" in dom, name + ": DOM lacks sites to open")
+        for row in csv.DictReader(open(os.path.join(out, site.get("folder", "."), "sites.csv"))):
+            if row["status"] == "new":
+                check(html_text(row["id"] + " " + row["name"]) in dom, name + ": DOM lacks new site " + row["id"])
+        check(people(site["after"]["people_covered"]) in dom, name + ": DOM lacks people covered after")
+    if "supply" in s:
+        tot = s["supply"]["totals"]
+        check("stock delivered to the sites" in dom, name + ": DOM lacks the stock figure")
+        check("{:,.0f} t".format(tot["kg_delivered"] / 1000) in dom, name + ": DOM lacks tonnes delivered")
+        for dep, v in tot["by_depot"].items():
+            check("%s %g trips" % (dep, v["trips"]) in dom, name + ": DOM lacks trips of depot " + dep)
+        for row in csv.DictReader(open(os.path.join(out, "supply_stock.csv"))):
+            check(row["site_id"] in dom, name + ": DOM lacks stock of site " + row["site_id"])
+        check("Shortages" in dom, name + ": DOM lacks the shortages table")
+    if "compare" in s:
+        for v in s["compare"]["variants"]:
+            check(html_text(v["name"]) in dom, name + ": DOM lacks variant " + v["name"])
+        check("Ranking" in dom, name + ": DOM lacks the ranking table")
+    if "links" in s:
+        for t in s["links"]["top"]:
+            check(t["road_id"] in dom, name + ": DOM lacks critical road " + t["road_id"])
+    n_img = text.count("data:image/png;base64,")
+    check(n_img >= 1 and dom.count("data:image/png;base64,") == n_img,
+          name + ": DOM lacks some of its %d images" % n_img)
 
     shot = os.path.join(work, name + ".png")
     chromium(["--screenshot=" + shot, "--window-size=412,1800"], url)

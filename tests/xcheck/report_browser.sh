@@ -1,5 +1,6 @@
 #!/bin/sh
-# Headless Chromium (Debian's) opens report.html of the demo district and of
+# Headless Chromium (Debian's) opens report.html of the demo district (reach,
+# plan with site selection and supply, compare, links) and of
 # real Burundi data (GHS-POP © European Union; OSM © OpenStreetMap
 # contributors): the DOM holds the key figures of summary.json, a phone-sized
 # screenshot is not blank, and the A4 PDF has the pages the print styles ask
@@ -20,6 +21,10 @@ trap 'rm -rf "$work"' EXIT
 fail=0
 if [ -f scenarios/demo/scenario.json ]; then
     "$bin" reach scenarios/demo/scenario.json -o "$work/demo" --quiet && "$bin" report "$work/demo" --quiet || fail=1
+    # The plan report (reach, site selection, supply) and the what-if reports.
+    "$bin" plan scenarios/demo/scenario.json -o "$work/plan" --quiet || fail=1
+    "$bin" compare scenarios/demo/scenario.json -o "$work/compare" --quiet && "$bin" report "$work/compare" --quiet || fail=1
+    "$bin" links scenarios/demo/scenario.json -o "$work/links" --quiet && "$bin" report "$work/links" --quiet || fail=1
 else
     echo "demo not generated (make check generates it)"
     fail=1
@@ -32,7 +37,7 @@ cat >"$work/burundi.json" <<JSON
                            "id_field": "osm_node_id", "name_field": "name" } } }
 JSON
 "$bin" reach "$work/burundi.json" -o "$work/bdi" --quiet && "$bin" report "$work/bdi" --quiet || fail=1
-/usr/bin/python3 tests/xcheck/report_browser.py "$work" "$work/demo" "$work/bdi"
+/usr/bin/python3 tests/xcheck/report_browser.py "$work" "$work/demo" "$work/plan" "$work/compare" "$work/links" "$work/bdi"
 rc=$?
 [ "$fail" -eq 0 ] && exit $rc
 echo "report_browser: 0 passed, 1 failed"
