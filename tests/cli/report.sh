@@ -200,6 +200,9 @@ import json, sys
 p = sys.argv[1]
 s = json.load(open(p))
 s["scenario"] = "/nonexistent/scenario.json"
+for i in s["inputs"]:
+    if i["role"] == "scenario":
+        i["path"] = "/nonexistent/scenario.json"
 json.dump(s, open(p, "w"))
 PYEOF
     expect_ok "$BIN" report "$WORK/plan3"
