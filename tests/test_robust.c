@@ -8,6 +8,8 @@
 
 #include "check.h"
 #include "robust.h"
+#include "scen_siting.h"
+#include "scenario.h"
 
 /* Tiny deterministic generator (xorshift32) so the instances repeat. */
 static unsigned rng_state = 2463534242u;
@@ -256,8 +258,69 @@ static void bad_input(void)
     robust_result_destroy(NULL);
 }
 
+/* The "siting.robust" key: defaults, weights, and every refusal. */
+#define HEAD "{\"inputs\": {\"population\": \"p.tif\", \"roads\": {\"path\": \"r.gpkg\", " \
+             "\"class_field\": \"highway\"}}, \"variants\": [{\"name\": \"bridge down\", " \
+             "\"close_roads\": {\"ids\": [\"7\"]}}, {\"name\": \"rain\", \"close_roads\": " \
+             "{\"ids\": [\"8\"]}}], \"siting\": {\"p\": 2, "
+
+static void refuse(const char *json, const char *sub)
+{
+    scen_t *s = (scen_t *)1;
+    err_t e = {0, ""};
+    CHECK(scen_parse(json, "case/bad.json", &s, &e) == ERR_INPUT);
+    CHECK(e.code == ERR_INPUT);
+    CHECK(s == NULL);
+    CHECK_STR_HAS(e.msg, sub);
+    CHECK_STR_HAS(e.msg, "case/bad.json");
+}
+
+static void scenario_keys(void)
+{
+    scen_t *s = NULL;
+    err_t e = {0, ""};
+
+    CHECK(scen_parse(HEAD "\"robust\": {}}}", "d/x.json", &s, &e) == ERR_OK);
+    if (s != NULL) {
+        CHECK(s->siting->robust == 1 && s->siting->robust_objective == 0);
+        CHECK_NEAR(s->siting->robust_base_weight, 1, 0);
+        CHECK_NEAR(scen_siting_robust_weight(s->siting, "rain"), 1, 0);
+    }
+    scen_free(s);
+    s = NULL;
+    CHECK(scen_parse(HEAD "\"robust\": {\"objective\": \"expected\", \"base_weight\": 0.5, "
+                     "\"weights\": {\"bridge down\": 0.2, \"rain\": 0}}}}", "d/x.json", &s, &e) == ERR_OK);
+    if (s != NULL) {
+        CHECK(s->siting->robust_objective == 1);
+        CHECK_NEAR(s->siting->robust_base_weight, 0.5, 0);
+        CHECK_NEAR(scen_siting_robust_weight(s->siting, "bridge down"), 0.2, 0);
+        CHECK_NEAR(scen_siting_robust_weight(s->siting, "rain"), 0, 0);
+    }
+    scen_free(s);
+    s = NULL;
+    CHECK(scen_parse(HEAD "\"model\": \"set_cover\"}}", "d/x.json", &s, &e) == ERR_OK);
+    CHECK(s != NULL && s->siting->robust == 0);
+    scen_free(s);
+
+    refuse(HEAD "\"robust\": {\"objective\": \"expected\", \"weights\": {\"bridge\": 1}}}}",
+           "key 'siting.robust.weights.bridge' names no variant");
+    refuse(HEAD "\"robust\": {\"objective\": \"expected\", \"weights\": {\"rain\": -1}}}}",
+           "siting.robust.weights.rain");
+    refuse(HEAD "\"robust\": {\"objective\": \"expected\", \"base_weight\": -0.1}}}",
+           "siting.robust.base_weight");
+    refuse(HEAD "\"robust\": {\"objective\": \"expected\", \"base_weight\": 0, "
+           "\"weights\": {\"rain\": 0, \"bridge down\": 0}}}}", "every weight in 'siting.robust' is 0");
+    refuse(HEAD "\"robust\": {\"weights\": {\"rain\": 2}}}}", "apply to objective 'expected' only");
+    refuse(HEAD "\"robust\": {\"objective\": \"best\"}}}", "siting.robust.objective");
+    refuse(HEAD "\"robust\": {\"objectve\": \"worst\"}}}", "did you mean 'objective'");
+    refuse(HEAD "\"model\": \"p_median\", \"robust\": {}}}", "model 'max_cover' only");
+    refuse("{\"inputs\": {\"population\": \"p.tif\"}, \"siting\": {\"p\": 1, "
+           "\"robust\": {}}}", "has no 'variants' section");
+}
+
 int main(void)
 {
+    scenario_keys();
     random_tests();
     bridge_case();
     bad_input();
