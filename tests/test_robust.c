@@ -178,6 +178,7 @@ static void bridge_case(void)
     CHECK(robust_solve(p, &o, &r, &e) == ERR_OK);
     CHECK(r.n_open == 1 && r.open[0] == 1);
     CHECK_NEAR(r.objective, 300, 1e-9);
+    CHECK_NEAR(r.heuristic_objective, 300, 1e-9);   /* greedy: S (300) beats N (200) */
     CHECK_NEAR(r.covered[0], 300, 1e-9);
     CHECK_NEAR(r.covered[1], 300, 1e-9);
     CHECK_NEAR(r.total_weight, 500, 1e-9);

@@ -253,19 +253,50 @@ static double objective_of(const robust_problem_t *p, int objective, const doubl
 /* Greedy: from the fixed-open sites, add the site that raises the objective most
  * (ties: the larger plain sum over scenarios, then the lower index) while p and
  * the budget allow and some scenario gains. The sum tie-break matters for the
- * worst case, where one site alone often leaves the worst scenario unchanged. */
+ * worst case, where one site alone often leaves the worst scenario unchanged.
+ * An index site -> (group, scenario) entries makes each round one pass over the
+ * pairs instead of one evaluation of every group per candidate. */
 static int greedy(const robust_problem_t *p, const robust_opts_t *o, const groups_t *g,
                   unsigned char *is_open, double *value, err_t *e)
 {
-    double *cov = malloc((p->n_scen + 1) * sizeof *cov);
+    size_t nv = p->n_scen, n_ent = 0;
+    size_t *first = calloc(p->n_sites + 2, sizeof *first), *fill = NULL;
+    size_t *ent = NULL;                       /* q * nv + v, grouped by site */
+    unsigned char *done = calloc(g->n * nv + 1, 1);   /* (group, scenario) covered */
+    double *cov = calloc(nv + 1, sizeof *cov), *gain = calloc(nv + 1, sizeof *gain);
     double spent = 0, cur_obj, cur_sum = 0;
-    int count = 0;
+    int count = 0, rc = ERR_OK;
 
-    if (cov == NULL) return err_set(e, ERR_NOMEM, "robust siting: out of memory in the greedy start");
-    for (size_t i = 0; i < p->n_sites; i++) is_open[i] = p->state[i] == LOC_FIXED_OPEN;
-    groups_eval(g, is_open, cov);
+    if (!first || !done || !cov || !gain) goto nomem;
+    for (size_t q = 0; q < g->n; q++)
+        for (size_t k = g->start[q]; k < g->start[q + 1]; k++)
+            if (g->sig[k] >= 0) {
+                first[g->sig[k] + 1]++;
+                n_ent++;
+            }
+    for (size_t i = 0; i < p->n_sites; i++) first[i + 1] += first[i];
+    ent = malloc((n_ent + 1) * sizeof *ent);
+    fill = malloc((p->n_sites + 1) * sizeof *fill);
+    if (!ent || !fill) goto nomem;
+    memcpy(fill, first, p->n_sites * sizeof *fill);
+    for (size_t q = 0; q < g->n; q++) {
+        size_t v = 0;
+        for (size_t k = g->start[q]; k < g->start[q + 1]; k++) {
+            if (g->sig[k] < 0) v++;
+            else ent[fill[g->sig[k]]++] = q * nv + v;
+        }
+    }
+    for (size_t i = 0; i < p->n_sites; i++) {
+        is_open[i] = p->state[i] == LOC_FIXED_OPEN;
+        if (!is_open[i]) continue;
+        for (size_t k = first[i]; k < first[i + 1]; k++)
+            if (!done[ent[k]]) {
+                done[ent[k]] = 1;
+                cov[ent[k] % nv] += g->w[ent[k] / nv];
+            }
+    }
     cur_obj = objective_of(p, o->objective, cov);
-    for (size_t v = 0; v < p->n_scen; v++) cur_sum += cov[v];
+    for (size_t v = 0; v < nv; v++) cur_sum += cov[v];
     while (o->p < 0 || count < o->p) {
         int best = -1;
         double best_obj = cur_obj, best_sum = cur_sum;
@@ -273,11 +304,11 @@ static int greedy(const robust_problem_t *p, const robust_opts_t *o, const group
             if (is_open[i]) continue;
             if (isfinite(o->budget) && spent + p->fixed_cost[i] > o->budget * (1 + 1e-12)) continue;
             double s = 0, z;
-            is_open[i] = 1;
-            groups_eval(g, is_open, cov);
-            is_open[i] = 0;
-            z = objective_of(p, o->objective, cov);
-            for (size_t v = 0; v < p->n_scen; v++) s += cov[v];
+            for (size_t v = 0; v < nv; v++) gain[v] = cov[v];
+            for (size_t k = first[i]; k < first[i + 1]; k++)
+                if (!done[ent[k]]) gain[ent[k] % nv] += g->w[ent[k] / nv];
+            z = objective_of(p, o->objective, gain);
+            for (size_t v = 0; v < nv; v++) s += gain[v];
             if (z > best_obj + 1e-9 || (z >= best_obj - 1e-9 && s > best_sum + 1e-9)) {
                 best = (int)i;
                 best_obj = z;
@@ -288,12 +319,27 @@ static int greedy(const robust_problem_t *p, const robust_opts_t *o, const group
         is_open[best] = 1;
         spent += p->fixed_cost[best];
         count++;
-        cur_obj = best_obj;
-        cur_sum = best_sum;
+        for (size_t k = first[best]; k < first[best + 1]; k++)
+            if (!done[ent[k]]) {
+                done[ent[k]] = 1;
+                cov[ent[k] % nv] += g->w[ent[k] / nv];
+            }
+        cur_obj = objective_of(p, o->objective, cov);
+        cur_sum = 0;
+        for (size_t v = 0; v < nv; v++) cur_sum += cov[v];
     }
     *value = cur_obj;
+    goto out;
+nomem:
+    rc = err_set(e, ERR_NOMEM, "robust siting: out of memory in the greedy start");
+out:
+    free(first);
+    free(fill);
+    free(ent);
+    free(done);
     free(cov);
-    return ERR_OK;
+    free(gain);
+    return rc;
 }
 
 static int check_problem(const robust_problem_t *p, const robust_opts_t *o, err_t *e)
