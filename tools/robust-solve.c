@@ -1,6 +1,6 @@
 /* robust-solve: solve a robust covering instance given as text, for the
  * cross-check against scipy.optimize.milp (tests/xcheck/robust_scipy.sh).
- * Usage: robust-solve FILE. FILE holds whitespace-separated numbers:
+ * Usage: robust-solve FILE [TIME_LIMIT_S]. FILE holds whitespace-separated numbers:
  *   n_units n_sites n_scen objective(0 worst, 1 expected) p
  *   n_scen scenario weights, n_units unit weights (persons),
  *   then triples "scenario unit site" (0-based) until the end: site covers unit.
@@ -21,8 +21,8 @@ int main(int argc, char **argv)
     size_t nu, ns, nv;
     int obj, pp, v, j, i, rc = 1;
 
-    if (argc != 2 || (f = fopen(argv[1], "r")) == NULL) {
-        fprintf(stderr, "usage: robust-solve FILE\n");
+    if (argc < 2 || argc > 3 || (f = fopen(argv[1], "r")) == NULL) {
+        fprintf(stderr, "usage: robust-solve FILE [TIME_LIMIT_S]\n");
         return 2;
     }
     if (fscanf(f, "%zu %zu %zu %d %d", &nu, &ns, &nv, &obj, &pp) != 5 ||
@@ -37,8 +37,11 @@ int main(int argc, char **argv)
     robust_opts_default(&o);
     o.objective = obj ? ROBUST_EXPECTED : ROBUST_WORST;
     o.p = pp;
+    if (argc == 3) o.solver.time_limit_s = atof(argv[2]);
     if (robust_solve(p, &o, &r, &e) != ERR_OK) goto done;
-    printf("objective %.10g\nbound %.10g\nstatus %s\nopen", r.objective, r.bound,
+    printf("objective %.10g\nbound %.10g\ngap %.6g\nheuristic %.10g\nseconds %.3f\n"
+           "groups %zu of %zu units\nstatus %s\nopen", r.objective, r.bound, r.gap,
+           r.heuristic_objective, r.seconds, r.units_after, r.units_before,
            solver_status_name(r.status));
     for (size_t k = 0; k < r.n_open; k++) printf(" %d", r.open[k]);
     printf("\n");

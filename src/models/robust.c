@@ -94,6 +94,9 @@ void robust_opts_default(robust_opts_t *o)
     o->budget = INFINITY;
     o->heuristic = 1;
     o->merge = 1;
+    /* As for the other covering models (location.c): the all-slack basis is
+     * dual feasible, so the root LP goes much faster by the dual simplex. */
+    o->solver.lp_dual = 1;
 }
 
 void robust_result_destroy(robust_result_t *r)
@@ -561,7 +564,24 @@ int robust_solve(const robust_problem_t *p, const robust_opts_t *o, robust_resul
         /* Objective recomputed from the plan itself (exact, no solver tolerance). */
         groups_eval(&g, is_open, r->covered);
         r->objective = objective_of(p, o->objective, r->covered);
-        if (!isfinite(r->bound) || r->bound < r->objective) r->bound = r->objective;
+        if (!isfinite(r->bound)) {
+            /* GLPK stopped before proving a bound: every coverable person in
+             * every scenario is one. */
+            double *all = malloc((p->n_scen + 1) * sizeof *all);
+            unsigned char *every = malloc(p->n_sites + 1);
+            if (!all || !every) {
+                free(all);
+                free(every);
+                rc = err_set(e, ERR_NOMEM, "robust siting: out of memory for the bound");
+                goto done;
+            }
+            memset(every, 1, p->n_sites);
+            groups_eval(&g, every, all);
+            r->bound = objective_of(p, o->objective, all);
+            free(all);
+            free(every);
+        }
+        if (r->bound < r->objective) r->bound = r->objective;
         r->gap = fabs(r->bound - r->objective) / fmax(fabs(r->objective), 1e-9);
         if (r->status == SOLVER_OPTIMAL && r->gap > 1e-6 + o->solver.rel_gap)
             r->status = SOLVER_FEASIBLE;
