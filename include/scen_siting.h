@@ -6,6 +6,8 @@
 #ifndef SCEN_SITING_H
 #define SCEN_SITING_H
 
+#include <stddef.h>
+
 enum scen_site_model {
     SCEN_SITE_MAX_COVER = 0,  /* most people within the limit with p sites / a budget */
     SCEN_SITE_SET_COVER,      /* fewest sites (or least fixed cost) covering a target share */
@@ -52,6 +54,17 @@ struct scen_siting {
     double gen_capacity;    /* "candidates.capacity" persons; INFINITY = none */
     double gen_fixed_cost;  /* "candidates.fixed_cost", default 0 */
     int gen_max;            /* "candidates.max": at most this many generated, default 2000 */
+    /* "robust": choose the sites over the base and every variant at once (max_cover
+     * on grids only; needs the "variants" section). */
+    int robust;             /* 1: "siting.robust" was given */
+    int robust_objective;   /* "robust.objective": 0 = "worst" (default), 1 = "expected" */
+    double robust_base_weight;  /* "robust.base_weight" (expected), >= 0, default 1 */
+    char **robust_names;    /* "robust.weights": variant name -> weight (expected); variants */
+    double *robust_weights; /*   not named weigh 1; names are checked against "variants" */
+    size_t n_robust_weights;
 };
+
+/* Weight of variant 'name' in the robust expected objective (1 when not named). */
+double scen_siting_robust_weight(const struct scen_siting *x, const char *name);
 
 #endif

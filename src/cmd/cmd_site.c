@@ -13,6 +13,7 @@
 #include "progress.h"
 #include "scen_siting.h"
 #include "site.h"
+#include "site_robust.h"
 #include "summary.h"
 
 const char cmd_site_usage[] =
@@ -30,6 +31,9 @@ const char cmd_site_usage[] =
     "  unserved.csv        demand left out, with the reason\n"
     "  unserved.tif        people left out per cell (grids)\n"
     "  coverage_curve.csv  best coverage for p = 1..P (when asked or for max_cover)\n"
+    "  robust.csv          with siting.robust: people covered under the base and each\n"
+    "                      variant by the robust plan and by the base-only plan\n"
+    "  robust_sites.csv    with siting.robust: the robust plan's open sites\n"
     "  summary.json        model, status, objective, bound, gap, open sites, people\n"
     "                      covered and unserved, solver time, inputs with checksums\n"
     "\n"
@@ -38,8 +42,8 @@ const char cmd_site_usage[] =
     "  --threads N   threads for the bounded searches (default: all cores)\n";
 
 /* The grid path: everything inputs_load reads, the network, then the stage. */
-static int run_grid(const cli_options_t *o, inputs_t **inp, site_data_t *d, cJSON **sum,
-                    err_t *e)
+static int run_grid(const cli_options_t *o, inputs_t **inp, site_data_t *d, site_robust_t *rob,
+                    cJSON **sum, err_t *e)
 {
     network_t *net = NULL;
     progress_t pr;
@@ -57,8 +61,12 @@ static int run_grid(const cli_options_t *o, inputs_t **inp, site_data_t *d, cJSO
     rc = network_build((*inp)->grid, (*inp)->roads, (*inp)->scen, &net, e);
     summary_time(*sum, "build_network", progress_end(&pr));
     if (rc == ERR_OK) rc = site_prepare_grid(*inp, net, o->threads, o->quiet, d, e);
+    /* Robust siting needs the network once more: each variant's searches. */
+    if (rc == ERR_OK && (*inp)->scen->siting->robust)
+        rc = site_robust_prepare(*inp, net, d, o->threads, o->quiet, rob, e);
     network_free(net);
     if (rc != ERR_OK) return rc;
+    if ((*inp)->scen->siting->robust) summary_time(*sum, "robust_searches", rob->seconds_searches);
     summary_time(*sum, "coverage_searches", d->seconds_searches);
     summary_time(*sum, "build_problem", d->seconds_build);
     return ERR_OK;
@@ -70,6 +78,7 @@ int cmd_site(const cli_options_t *o, err_t *e)
     scen_t *scen = NULL;
     site_data_t d = {0};
     site_result_t r = {0};
+    site_robust_t rob = {0};
     cJSON *sum = NULL;
     char *path = NULL;
     progress_t pr;
@@ -82,11 +91,16 @@ int cmd_site(const cli_options_t *o, err_t *e)
     if (scen->population != NULL) {
         scen_free(scen);
         scen = NULL;
-        rc = run_grid(o, &in, &d, &sum, e);
+        rc = run_grid(o, &in, &d, &rob, &sum, e);
         if (rc != ERR_OK) goto done;
     } else {
         inputs_t tin = {0};
         tin.scen = scen;
+        if (scen->siting != NULL && scen->siting->robust) {
+            rc = err_set(e, ERR_INPUT, "%s: key 'siting.robust' works on grids only (variants "
+                         "edit the road network); remove it for table inputs", scen->file);
+            goto done;
+        }
         rc = site_prepare_tables(scen, &d, e);
         if (rc == ERR_OK) rc = summary_new("site", &tin, &sum, e);
         if (rc != ERR_OK) goto done;
@@ -103,8 +117,15 @@ int cmd_site(const cli_options_t *o, err_t *e)
         if (rc != ERR_OK) goto done;
         summary_time(sum, "model", r.seconds_model);
         summary_time(sum, "coverage_curve", r.seconds_curve);
+        if (rob.prob != NULL) {
+            rc = site_robust_solve(s, &d, &r, &rob, e);
+            if (rc != ERR_OK) goto done;
+            summary_time(sum, "robust_model", rob.seconds_model);
+        }
         progress_start(&pr, "writing outputs");
         rc = site_write(o->outdir, s, &d, &r, sum, e);
+        if (rc == ERR_OK && rob.prob != NULL)
+            rc = site_robust_write(o->outdir, s, &d, &rob, sum, e);
         summary_time(sum, "write_outputs", progress_end(&pr));
         if (rc != ERR_OK) goto done;
         summary_caution(sum);
@@ -119,6 +140,7 @@ int cmd_site(const cli_options_t *o, err_t *e)
             for (size_t i = 0; in != NULL && i < in->warnings.n; i++)
                 printf("warning: %s\n", in->warnings.items[i]);
             site_print(s, &d, &r);
+            if (rob.prob != NULL) site_robust_print(s, &d, &rob);
             printf("outputs in %s\n%s\n", o->outdir, summary_caution_text);
         }
     }
@@ -126,6 +148,7 @@ done:
     free(path);
     cJSON_Delete(sum);
     site_result_destroy(&r);
+    site_robust_destroy(&rob);
     site_data_destroy(&d);
     inputs_free(in);
     scen_free(scen);
