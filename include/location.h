@@ -101,6 +101,22 @@ typedef struct loc_result {
 
 void loc_result_destroy(loc_result_t *r);  /* NULL-safe; frees the arrays */
 
+/* A demand unit's signature for merging: n ints at s (its sorted covering sites,
+ * or covering tuples over scenarios), and the unit it belongs to. */
+typedef struct loc_sig {
+    const int *s;
+    size_t n;
+    size_t unit;
+} loc_sig_t;
+
+/* Merge units with identical signatures (exact for covering models): sorts 'us'
+ * when 'merge' is set, then writes one group per distinct signature (one per unit
+ * when 'merge' is 0): its weight (sum of weight[unit]) into w[], its signature into
+ * out_sig[start[g] .. start[g+1]). Room: w and start for nu (+1) entries, out_sig for
+ * the total length. Returns the number of groups. */
+size_t loc_merge_sigs(loc_sig_t *us, size_t nu, int merge, const double *weight, double *w,
+                      size_t *start, int *out_sig);
+
 /* Shared checks: p within the candidate count, at least one candidate. */
 int loc_check_p(const loc_problem_t *p, int count, err_t *e);
 

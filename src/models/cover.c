@@ -40,21 +40,6 @@ static void groups_destroy(groups_t *g)
 }
 
 /* Per-unit covering set, sorted by site, for the sort comparator. */
-typedef struct unit_set {
-    const int *s;
-    size_t n;
-    size_t unit;
-} unit_set_t;
-
-static int cmp_set(const void *a, const void *b)
-{
-    const unit_set_t *x = a, *y = b;
-    if (x->n != y->n) return x->n < y->n ? -1 : 1;
-    for (size_t k = 0; k < x->n; k++)
-        if (x->s[k] != y->s[k]) return x->s[k] < y->s[k] ? -1 : 1;
-    return (x->unit > y->unit) - (x->unit < y->unit);
-}
-
 static int cmp_int(const void *a, const void *b)
 {
     int x = *(const int *)a, y = *(const int *)b;
@@ -64,7 +49,7 @@ static int cmp_int(const void *a, const void *b)
 static int groups_build(const loc_problem_t *p, double limit, int merge, groups_t *g, err_t *e)
 {
     int *sets = NULL;
-    unit_set_t *us = NULL;
+    loc_sig_t *us = NULL;
     size_t nu = 0, ns = 0;
     int rc = ERR_OK;
 
@@ -103,21 +88,7 @@ static int groups_build(const loc_problem_t *p, double limit, int merge, groups_
         }
     }
     g->units_in = nu;
-    if (merge) qsort(us, nu, sizeof *us, cmp_set);
-    ns = 0;
-    for (size_t q = 0; q < nu; q++) {
-        int same = merge && q > 0 && us[q].n == us[q - 1].n &&
-                   memcmp(us[q].s, us[q - 1].s, us[q].n * sizeof *us[q].s) == 0;
-        if (same) {
-            g->w[g->n - 1] += p->weight[us[q].unit];
-            continue;
-        }
-        g->start[g->n] = ns;
-        memcpy(g->site + ns, us[q].s, us[q].n * sizeof *g->site);
-        ns += us[q].n;
-        g->w[g->n++] = p->weight[us[q].unit];
-    }
-    g->start[g->n] = ns;
+    g->n = loc_merge_sigs(us, nu, merge, p->weight, g->w, g->start, g->site);
 done:
     free(sets);
     free(us);

@@ -299,3 +299,34 @@ int loc_plan_nearest(const loc_problem_t *p, const unsigned char *is_open, doubl
     r->unserved_weight = r->total_weight - r->served_weight;
     return ERR_OK;
 }
+
+static int cmp_sig(const void *a, const void *b)
+{
+    const loc_sig_t *x = a, *y = b;
+    if (x->n != y->n) return x->n < y->n ? -1 : 1;
+    for (size_t k = 0; k < x->n; k++)
+        if (x->s[k] != y->s[k]) return x->s[k] < y->s[k] ? -1 : 1;
+    return (x->unit > y->unit) - (x->unit < y->unit);
+}
+
+size_t loc_merge_sigs(loc_sig_t *us, size_t nu, int merge, const double *weight, double *w,
+                      size_t *start, int *out_sig)
+{
+    size_t n = 0, ns = 0;
+
+    if (merge) qsort(us, nu, sizeof *us, cmp_sig);
+    for (size_t q = 0; q < nu; q++) {
+        int same = merge && q > 0 && us[q].n == us[q - 1].n &&
+                   memcmp(us[q].s, us[q - 1].s, us[q].n * sizeof *us[q].s) == 0;
+        if (same) {
+            w[n - 1] += weight[us[q].unit];
+            continue;
+        }
+        start[n] = ns;
+        memcpy(out_sig + ns, us[q].s, us[q].n * sizeof *out_sig);
+        ns += us[q].n;
+        w[n++] = weight[us[q].unit];
+    }
+    start[n] = ns;
+    return n;
+}

@@ -137,26 +137,11 @@ static int cmp_triple(const void *a, const void *b)
     return (x->site > y->site) - (x->site < y->site);
 }
 
-typedef struct usig {
-    const int *s;
-    size_t n;
-    size_t unit;
-} usig_t;
-
-static int cmp_usig(const void *a, const void *b)
-{
-    const usig_t *x = a, *y = b;
-    if (x->n != y->n) return x->n < y->n ? -1 : 1;
-    for (size_t k = 0; k < x->n; k++)
-        if (x->s[k] != y->s[k]) return x->s[k] < y->s[k] ? -1 : 1;
-    return (x->unit > y->unit) - (x->unit < y->unit);
-}
-
 static int groups_build(const robust_problem_t *p, int merge, groups_t *g, err_t *e)
 {
     triple_t *t = NULL;
     int *sig = NULL;
-    usig_t *us = NULL;
+    loc_sig_t *us = NULL;
     size_t nt = 0, ns = 0, nu = 0, k = 0;
     /* Each unit with pairs writes its pairs plus n_scen separators. */
     size_t sig_cap = p->n_pairs + p->n_units * p->n_scen + 1;
@@ -201,21 +186,7 @@ static int groups_build(const robust_problem_t *p, int merge, groups_t *g, err_t
         nu++;
     }
     g->units_in = nu;
-    if (merge) qsort(us, nu, sizeof *us, cmp_usig);
-    ns = 0;
-    for (size_t q = 0; q < nu; q++) {
-        int same = merge && q > 0 && us[q].n == us[q - 1].n &&
-                   memcmp(us[q].s, us[q - 1].s, us[q].n * sizeof *us[q].s) == 0;
-        if (same) {
-            g->w[g->n - 1] += p->weight[us[q].unit];
-            continue;
-        }
-        g->start[g->n] = ns;
-        memcpy(g->sig + ns, us[q].s, us[q].n * sizeof *g->sig);
-        ns += us[q].n;
-        g->w[g->n++] = p->weight[us[q].unit];
-    }
-    g->start[g->n] = ns;
+    g->n = loc_merge_sigs(us, nu, merge, p->weight, g->w, g->start, g->sig);
 done:
     free(t);
     free(sig);
