@@ -22,67 +22,25 @@ closes it: S1 covers T (300) except in "post closed". M: base 700, bridge down
 300, post closed 700 -> worst 300; E: base 700, bridge down 700, post closed 400
 -> worst 400: E again, and its "post closed" row counts 400 with 1 site closed.
 """
-import array
-import json
+
 import os
 import sys
 
-from osgeo import gdal, ogr, osr
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import fxgrid  # noqa: E402
+from fxgrid import CELL, NX, NY, X0, Y0, centre, line, point, srs  # noqa: E402,F401
+from osgeo import gdal, ogr, osr  # noqa: E402,F401
 
-gdal.UseExceptions()
 D = sys.argv[1]
 os.makedirs(D, exist_ok=True)
-X0, Y0, CELL, NX, NY = 500000.0, 9000000.0, 100.0, 20, 5
-
-
-def srs(epsg):
-    s = osr.SpatialReference()
-    s.ImportFromEPSG(epsg)
-    s.SetAxisMappingStrategy(osr.OAMS_TRADITIONAL_GIS_ORDER)
-    return s
 
 
 def raster(name, values, dtype=gdal.GDT_Float32):
-    ds = gdal.GetDriverByName("GTiff").Create(os.path.join(D, name), NX, NY, 1, dtype)
-    ds.SetGeoTransform((X0, CELL, 0, Y0, 0, -CELL))
-    ds.SetProjection(srs(32736).ExportToWkt())
-    ds.GetRasterBand(1).WriteRaster(0, 0, NX, NY, array.array(
-        "f" if dtype == gdal.GDT_Float32 else "B", values).tobytes())
-    ds = None
+    fxgrid.raster(D, name, values, dtype)
 
 
-def centre(col, row):
-    return X0 + (col + 0.5) * CELL, Y0 - (row + 0.5) * CELL
-
-
-def layer(name, gtype, feats, fields):
-    path = os.path.join(D, name)
-    if os.path.exists(path):
-        os.remove(path)
-    ds = ogr.GetDriverByName("GeoJSON").CreateDataSource(path)
-    lay = ds.CreateLayer("layer", srs(32736), gtype)
-    for f in fields:
-        lay.CreateField(ogr.FieldDefn(f, ogr.OFTString))
-    for geom, attrs in feats:
-        ft = ogr.Feature(lay.GetLayerDefn())
-        ft.SetGeometry(geom)
-        for k, v in attrs.items():
-            ft.SetField(k, v)
-        lay.CreateFeature(ft)
-    ds = None
-
-
-def line(c0, c1, row=2):
-    g = ogr.Geometry(ogr.wkbLineString)
-    g.AddPoint_2D(*centre(c0, row))
-    g.AddPoint_2D(*centre(c1, row))
-    return g
-
-
-def point(col, row):
-    g = ogr.Geometry(ogr.wkbPoint)
-    g.AddPoint_2D(*centre(col, row))
-    return g
+def layer(name, gtype, feats, fields, epsg=32736):
+    fxgrid.layer(D, name, gtype, feats, fields, epsg)
 
 
 pop = [0.0] * (NX * NY)
@@ -117,14 +75,7 @@ base = {
 
 
 def write(name, changes):
-    s = json.loads(json.dumps(base))
-    for k, v in changes.items():
-        if v is None:
-            del s[k]
-        else:
-            s[k] = v
-    with open(os.path.join(D, name), "w") as f:
-        json.dump(s, f, indent=1)
+    fxgrid.write(D, base, name, changes)
 
 
 siting = base["siting"]

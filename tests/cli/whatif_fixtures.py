@@ -12,67 +12,25 @@ cells = 450 people, all within 30 min in the base: at most 12 min to the bridge
 end, 9.6 min along R3 and 4.8 min off the road); the flood makes 15 cells (150
 people) impassable and cuts the 15 cells east of it off as well (300 in all).
 """
-import json
+
 import os
 import sys
 
-from osgeo import gdal, ogr, osr
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import fxgrid  # noqa: E402
+from fxgrid import CELL, NX, NY, X0, Y0, centre, line, point, srs  # noqa: E402,F401
+from osgeo import gdal, ogr, osr  # noqa: E402,F401
 
-gdal.UseExceptions()
 D = sys.argv[1]
 os.makedirs(D, exist_ok=True)
-X0, Y0, CELL, NX, NY = 500000.0, 9000000.0, 100.0, 20, 5
-
-
-def srs(epsg):
-    s = osr.SpatialReference()
-    s.ImportFromEPSG(epsg)
-    s.SetAxisMappingStrategy(osr.OAMS_TRADITIONAL_GIS_ORDER)
-    return s
 
 
 def raster(name, values, dtype=gdal.GDT_Float32):
-    ds = gdal.GetDriverByName("GTiff").Create(os.path.join(D, name), NX, NY, 1, dtype)
-    ds.SetGeoTransform((X0, CELL, 0, Y0, 0, -CELL))
-    ds.SetProjection(srs(32736).ExportToWkt())
-    import array
-    ds.GetRasterBand(1).WriteRaster(0, 0, NX, NY, array.array(
-        "f" if dtype == gdal.GDT_Float32 else "B", values).tobytes())
-    ds = None
-
-
-def centre(col, row):
-    return X0 + (col + 0.5) * CELL, Y0 - (row + 0.5) * CELL
+    fxgrid.raster(D, name, values, dtype)
 
 
 def layer(name, gtype, feats, fields, epsg=32736):
-    path = os.path.join(D, name)
-    if os.path.exists(path):
-        os.remove(path)
-    ds = ogr.GetDriverByName("GeoJSON").CreateDataSource(path)
-    lay = ds.CreateLayer("layer", srs(epsg), gtype)
-    for f in fields:
-        lay.CreateField(ogr.FieldDefn(f, ogr.OFTString))
-    for geom, attrs in feats:
-        ft = ogr.Feature(lay.GetLayerDefn())
-        ft.SetGeometry(geom)
-        for k, v in attrs.items():
-            ft.SetField(k, v)
-        lay.CreateFeature(ft)
-    ds = None
-
-
-def line(c0, c1, row=2):
-    g = ogr.Geometry(ogr.wkbLineString)
-    g.AddPoint_2D(*centre(c0, row))
-    g.AddPoint_2D(*centre(c1, row))
-    return g
-
-
-def point(col, row):
-    g = ogr.Geometry(ogr.wkbPoint)
-    g.AddPoint_2D(*centre(col, row))
-    return g
+    fxgrid.layer(D, name, gtype, feats, fields, epsg)
 
 
 raster("pop.tif", [0.0 if c % NX == 10 else 10.0 for c in range(NX * NY)])
@@ -122,14 +80,7 @@ base = {
 
 
 def write(name, changes):
-    s = json.loads(json.dumps(base))
-    for k, v in changes.items():
-        if v is None:
-            del s[k]
-        else:
-            s[k] = v
-    with open(os.path.join(D, name), "w") as f:
-        json.dump(s, f, indent=1)
+    fxgrid.write(D, base, name, changes)
 
 
 write("good.json", {})
