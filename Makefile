@@ -39,12 +39,14 @@ CMD_SRC  := $(sort $(wildcard src/cmd/*.c))
 TEST_SRC := $(sort $(wildcard tests/test_*.c))
 TOOL_SRC := $(sort $(wildcard tools/*.c))
 SUPPORT_SRC := $(sort $(wildcard tests/support/*.c))
+TOOL_SUPPORT_SRC := $(sort $(wildcard tools/support/*.c))
 
 LIB_OBJ  := $(LIB_SRC:%.c=$(BUILD)/%.o)
 CMD_OBJ  := $(CMD_SRC:%.c=$(BUILD)/%.o)
 TESTS    := $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 TOOLS    := $(TOOL_SRC:tools/%.c=$(BUILD)/tools/%)
 SUPPORT_OBJ := $(SUPPORT_SRC:%.c=$(BUILD)/%.o)
+TOOL_SUPPORT_OBJ := $(TOOL_SUPPORT_SRC:%.c=$(BUILD)/%.o)
 LIBA     := $(BUILD)/libsitereach.a
 BIN      := $(BUILD)/sitereach
 
@@ -77,9 +79,14 @@ $(BUILD)/tests/%: tests/%.c tests/check.h $(SUPPORT_OBJ) $(LIBA)
 	@mkdir -p $(dir $@)
 	$(CC) $(CFLAGS) -Itests -Itests/support $(LDFLAGS) -o $@ $< $(SUPPORT_OBJ) $(LIBA) $(LDLIBS)
 
-$(BUILD)/tools/%: tools/%.c $(LIBA)
+# Shared benchmark builders (tools/support) are linked into every tool.
+$(BUILD)/tools/support/%.o: tools/support/%.c
 	@mkdir -p $(dir $@)
-	$(CC) $(CFLAGS) $(LDFLAGS) -o $@ $< $(LIBA) $(LDLIBS)
+	$(CC) $(CFLAGS) -Itools/support -MMD -MP -c $< -o $@
+
+$(BUILD)/tools/%: tools/%.c $(TOOL_SUPPORT_OBJ) $(LIBA)
+	@mkdir -p $(dir $@)
+	$(CC) $(CFLAGS) -Itools/support $(LDFLAGS) -o $@ $< $(TOOL_SUPPORT_OBJ) $(LIBA) $(LDLIBS)
 
 tests: $(BIN) $(TESTS) $(TOOLS)
 

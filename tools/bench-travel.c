@@ -16,95 +16,10 @@
 
 #include "network.h"
 #include "travel.h"
+#include "synth.h"
 
-static double now_s(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return ts.tv_sec + ts.tv_nsec * 1e-9;
-}
-
-/* CPU seconds of the whole process (all threads): on a shared machine the wall
- * clock also counts time spent waiting for a core, so both are printed. */
-static double cpu_s(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
-    return ts.tv_sec + ts.tv_nsec * 1e-9;
-}
-
-static double peak_bytes(void)
-{
-    struct rusage ru;
-    getrusage(RUSAGE_SELF, &ru);
-    return (double)ru.ru_maxrss * 1024.0;   /* Linux reports kilobytes */
-}
-
-/* Deterministic pseudo-random numbers (64-bit LCG, Knuth's MMIX constants). */
-static uint64_t rng_state = 12345;
-static uint64_t rnd(void)
-{
-    rng_state = rng_state * 6364136223846793005ULL + 1442695040888963407ULL;
-    return rng_state >> 33;
-}
-
-static grid_t *make_grid(int n, double cell)
-{
-    grid_t *g = calloc(1, sizeof *g);
-    size_t nc = (size_t)n * n;
-    g->nx = g->ny = n;
-    g->gt[1] = cell;
-    g->gt[3] = n * cell;
-    g->gt[5] = -cell;
-    g->row_dx_m = malloc((size_t)n * sizeof(double));
-    g->row_dy_m = malloc((size_t)n * sizeof(double));
-    g->people = malloc(nc * sizeof(double));
-    g->elevation = malloc(nc * sizeof(float));
-    if (!g->row_dx_m || !g->row_dy_m || !g->people || !g->elevation) return NULL;
-    for (int r = 0; r < n; r++) g->row_dx_m[r] = g->row_dy_m[r] = cell;
-    for (int r = 0; r < n; r++) {
-        for (int c = 0; c < n; c++) {
-            size_t i = (size_t)r * n + c;
-            g->people[i] = (double)(rnd() % 40);
-            /* Hills of about 2 km wavelength and 40 m relief: slopes up to ~0.1. */
-            g->elevation[i] = (float)(20.0 * sin(c / 3.2) + 20.0 * cos(r / 4.1));
-        }
-    }
-    return g;
-}
-
-/* Roads along every 'step'-th row and column, joined at the crossings. */
-static roads_t *make_roads(const grid_t *g, int step)
-{
-    roads_t *r = calloc(1, sizeof *r);
-    int k = (g->nx - 1) / step + 1;   /* lines each way */
-    size_t nn = (size_t)k * k, ns = 2 * (size_t)k * (k - 1);
-    r->n_nodes = nn;
-    r->x = malloc(nn * sizeof(double));
-    r->y = malloc(nn * sizeof(double));
-    r->node_junction = malloc(nn);
-    r->segs = calloc(ns, sizeof *r->segs);
-    r->classes = calloc(1, sizeof *r->classes);
-    r->n_classes = 1;
-    r->classes[0].walk_mps = 5.0 / 3.6;
-    r->classes[0].vehicle_mps = 40.0 / 3.6;
-    for (int i = 0; i < k; i++) {
-        for (int j = 0; j < k; j++) {
-            size_t id = (size_t)i * k + j;
-            r->x[id] = g->gt[0] + (j * step + 0.5) * g->gt[1];
-            r->y[id] = g->gt[3] + (i * step + 0.5) * g->gt[5];
-            r->node_junction[id] = 1;
-        }
-    }
-    for (int i = 0; i < k; i++) {
-        for (int j = 0; j < k; j++) {
-            int32_t id = i * k + j;
-            if (j + 1 < k) r->segs[r->n_segs++] = (road_seg_t){id, id + 1, 0, 0, step * g->gt[1], 0};
-            if (i + 1 < k) r->segs[r->n_segs++] = (road_seg_t){id, id + k, 0, 0, step * g->gt[1], 0};
-        }
-    }
-    return r;
-}
+/* The tool's own random sequence (seeded as it always was, for comparable runs). */
+static synth_rng_t rng = {12345};
 
 int main(int argc, char **argv)
 {
@@ -134,8 +49,8 @@ int main(int argc, char **argv)
     igraph_set_warning_handler(igraph_warning_handler_ignore);
 
     int n = (int)ceil(sqrt((double)cells));
-    grid_t *g = make_grid(n, 100.0);
-    roads_t *r = g ? make_roads(g, 50) : NULL;
+    grid_t *g = synth_grid(n, 100.0, &rng);
+    roads_t *r = g ? synth_roads(g, 50) : NULL;
     if (g == NULL || r == NULL) {
         fprintf(stderr, "bench-travel: out of memory for the synthetic grid\n");
         return 1;
@@ -149,57 +64,57 @@ int main(int argc, char **argv)
     printf("grid: %d x %d = %.0f cells of 100 m, %d neighbours, %zu road nodes, %zu segments\n",
            n, n, nc, neighbours, r->n_nodes, r->n_segs);
 
-    double t0 = now_s(), c0 = cpu_s();
+    double t0 = synth_now_s(), c0 = synth_cpu_s();
     if (network_build(g, r, &s, &net, &e) != ERR_OK) {
         fprintf(stderr, "bench-travel: %s\n", e.msg);
         return 1;
     }
-    double t_build = now_s() - t0, c_build = cpu_s() - c0;
+    double t_build = synth_now_s() - t0, c_build = synth_cpu_s() - c0;
     network_get_stats(net, &st);
     printf("edges: %ld (walk %zu, road %zu, connectors %zu), nodes %ld\n",
            (long)igraph_ecount(network_graph(net)), st.n_walk_edges, st.n_road_edges,
            st.n_connector_edges, (long)network_n_nodes(net));
     printf("build_s: %.2f (cpu %.2f)\n", t_build, c_build);
-    printf("peak_after_build_bytes_per_cell: %.0f\n", peak_bytes() / nc);
+    printf("peak_after_build_bytes_per_cell: %.0f\n", synth_peak_bytes() / nc);
 
     int64_t *sites = malloc((size_t)n_sites * sizeof *sites);
-    for (long i = 0; i < n_sites; i++) sites[i] = (int64_t)(rnd() % (uint64_t)(n * (int64_t)n));
-    t0 = now_s();
-    c0 = cpu_s();
+    for (long i = 0; i < n_sites; i++) sites[i] = (int64_t)(synth_rnd(&rng) % (uint64_t)(n * (int64_t)n));
+    t0 = synth_now_s();
+    c0 = synth_cpu_s();
     if (travel_nearest(net, sites, (size_t)n_sites, &res, &e) != ERR_OK) {
         fprintf(stderr, "bench-travel: %s\n", e.msg);
         return 1;
     }
-    double t_near = now_s() - t0, c_near = cpu_s() - c0;
+    double t_near = synth_now_s() - t0, c_near = synth_cpu_s() - c0;
     double worst = 0.0;
     for (int64_t c = 0; c < res->n_cells; c++)
         if (isfinite(res->time_s[c]) && res->time_s[c] > worst) worst = res->time_s[c];
     printf("nearest_sites: %ld\n", n_sites);
     printf("nearest_s: %.2f (cpu %.2f)\n", t_near, c_near);
     printf("nearest_max_time_min: %.1f\n", worst / 60.0);
-    printf("peak_after_nearest_bytes_per_cell: %.0f\n", peak_bytes() / nc);
+    printf("peak_after_nearest_bytes_per_cell: %.0f\n", synth_peak_bytes() / nc);
     travel_result_free(res);
     /* Again with the same sites: the virtual edges exist now, so no re-index. */
-    t0 = now_s();
-    c0 = cpu_s();
+    t0 = synth_now_s();
+    c0 = synth_cpu_s();
     if (travel_nearest(net, sites, (size_t)n_sites, &res, &e) != ERR_OK) {
         fprintf(stderr, "bench-travel: %s\n", e.msg);
         return 1;
     }
-    printf("nearest_again_s: %.2f (cpu %.2f)\n", now_s() - t0, cpu_s() - c0);
+    printf("nearest_again_s: %.2f (cpu %.2f)\n", synth_now_s() - t0, synth_cpu_s() - c0);
     travel_result_free(res);
 
     int64_t *src = malloc((size_t)n_search * sizeof *src);
     travel_reach_t *out = calloc((size_t)n_search, sizeof *out);
-    for (long i = 0; i < n_search; i++) src[i] = (int64_t)(rnd() % (uint64_t)(n * (int64_t)n));
-    t0 = now_s();
-    c0 = cpu_s();
+    for (long i = 0; i < n_search; i++) src[i] = (int64_t)(synth_rnd(&rng) % (uint64_t)(n * (int64_t)n));
+    t0 = synth_now_s();
+    c0 = synth_cpu_s();
     if (travel_bounded_many(net, src, (size_t)n_search, limit_min * 60.0, threads, out, &e)
         != ERR_OK) {
         fprintf(stderr, "bench-travel: %s\n", e.msg);
         return 1;
     }
-    double t_bound = now_s() - t0, c_bound = cpu_s() - c0;
+    double t_bound = synth_now_s() - t0, c_bound = synth_cpu_s() - c0;
     double reached = 0.0;
     for (long i = 0; i < n_search; i++) {
         reached += (double)out[i].n;
@@ -208,7 +123,7 @@ int main(int argc, char **argv)
     printf("bounded_searches: %ld of %.0f min on %d threads\n", n_search, limit_min, threads);
     printf("bounded_total_s: %.2f (cpu %.2f over all threads)\n", t_bound, c_bound);
     printf("bounded_mean_cells_reached: %.0f\n", reached / (double)(n_search ? n_search : 1));
-    printf("peak_bytes_per_cell: %.0f\n", peak_bytes() / nc);
+    printf("peak_bytes_per_cell: %.0f\n", synth_peak_bytes() / nc);
 
     free(out);
     free(src);

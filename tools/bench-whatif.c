@@ -24,103 +24,10 @@
 #include "network.h"
 #include "sptree.h"
 #include "travel.h"
+#include "synth.h"
 
-static double now_s(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return ts.tv_sec + ts.tv_nsec * 1e-9;
-}
-
-/* CPU seconds of the whole process (all threads): on a shared machine the wall
- * clock also counts time spent waiting for a core, so both are printed. */
-static double cpu_s(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
-    return ts.tv_sec + ts.tv_nsec * 1e-9;
-}
-
-/* Deterministic pseudo-random numbers (64-bit LCG, Knuth's MMIX constants). */
-static uint64_t rng_state = 4242;
-static uint64_t rnd(void)
-{
-    rng_state = rng_state * 6364136223846793005ULL + 1442695040888963407ULL;
-    return rng_state >> 33;
-}
-
-static grid_t *make_grid(int n, double cell)
-{
-    grid_t *g = calloc(1, sizeof *g);
-    size_t nc = (size_t)n * n;
-    g->nx = g->ny = n;
-    g->gt[1] = cell;
-    g->gt[3] = n * cell;
-    g->gt[5] = -cell;
-    g->row_dx_m = malloc((size_t)n * sizeof(double));
-    g->row_dy_m = malloc((size_t)n * sizeof(double));
-    g->people = malloc(nc * sizeof(double));
-    g->elevation = malloc(nc * sizeof(float));
-    if (!g->row_dx_m || !g->row_dy_m || !g->people || !g->elevation) return NULL;
-    for (int r = 0; r < n; r++) g->row_dx_m[r] = g->row_dy_m[r] = cell;
-    for (int r = 0; r < n; r++)
-        for (int c = 0; c < n; c++) {
-            size_t i = (size_t)r * n + c;
-            g->people[i] = (double)(rnd() % 40);
-            g->elevation[i] = (float)(20.0 * sin(c / 3.2) + 20.0 * cos(r / 4.1));
-        }
-    return g;
-}
-
-static void free_grid(grid_t *g)
-{
-    free(g->row_dx_m);
-    free(g->row_dy_m);
-    free(g->people);
-    free(g->elevation);
-    free(g);
-}
-
-/* Roads along every 'step'-th row and column, joined at the crossings. */
-static roads_t *make_roads(const grid_t *g, int step)
-{
-    roads_t *r = calloc(1, sizeof *r);
-    int k = (g->nx - 1) / step + 1;
-    size_t nn = (size_t)k * k, ns = 2 * (size_t)k * (k - 1);
-    r->n_nodes = nn;
-    r->x = malloc(nn * sizeof(double));
-    r->y = malloc(nn * sizeof(double));
-    r->node_junction = malloc(nn);
-    r->segs = calloc(ns, sizeof *r->segs);
-    r->classes = calloc(1, sizeof *r->classes);
-    r->n_classes = 1;
-    r->classes[0].walk_mps = 5.0 / 3.6;
-    r->classes[0].vehicle_mps = 40.0 / 3.6;
-    for (int i = 0; i < k; i++)
-        for (int j = 0; j < k; j++) {
-            size_t id = (size_t)i * k + j;
-            r->x[id] = g->gt[0] + (j * step + 0.5) * g->gt[1];
-            r->y[id] = g->gt[3] + (i * step + 0.5) * g->gt[5];
-            r->node_junction[id] = 1;
-        }
-    for (int i = 0; i < k; i++)
-        for (int j = 0; j < k; j++) {
-            int32_t id = i * k + j;
-            if (j + 1 < k) r->segs[r->n_segs++] = (road_seg_t){id, id + 1, 0, 0, step * g->gt[1], 0};
-            if (i + 1 < k) r->segs[r->n_segs++] = (road_seg_t){id, id + k, 0, 0, step * g->gt[1], 0};
-        }
-    return r;
-}
-
-static void free_roads(roads_t *r)
-{
-    free(r->x);
-    free(r->y);
-    free(r->node_junction);
-    free(r->segs);
-    free(r->classes);
-    free(r);
-}
+/* The tool's own random sequence (seeded as it always was, for comparable runs). */
+static synth_rng_t rng = {4242};
 
 static int edit_seg(network_t *net, size_t s, double factor, err_t *e)
 {
@@ -136,8 +43,8 @@ static int edit_seg(network_t *net, size_t s, double factor, err_t *e)
 static int bench_variants(long cells, long n_var)
 {
     int n = (int)ceil(sqrt((double)cells));
-    grid_t *g = make_grid(n, 100.0);
-    roads_t *r = make_roads(g, 50);
+    grid_t *g = synth_grid(n, 100.0, &rng);
+    roads_t *r = synth_roads(g, 50);
     size_t nc = (size_t)n * n;
     scen_t s;
     network_t *net = NULL;
@@ -161,7 +68,7 @@ static int bench_variants(long cells, long n_var)
     s.cover_default_factor = 1.0;
     printf("## variants on %d x %d = %zu cells, %zu road segments, 200 sites\n", n, n, nc,
            r->n_segs);
-    for (int i = 0; i < 200; i++) sites[i] = (int64_t)(rnd() % nc);
+    for (int i = 0; i < 200; i++) sites[i] = (int64_t)(synth_rnd(&rng) % nc);
     if (network_build(g, r, &s, &net, &e) != ERR_OK ||
         sptree_build(net, sites, 200, &tree, &e) != ERR_OK)
         goto fail;
@@ -171,50 +78,50 @@ static int bench_variants(long cells, long n_var)
         /* A rebuild plus one full pass, timed alone. */
         network_t *n2 = NULL;
         travel_result_t *r2 = NULL;
-        double t0 = now_s();
-        c_full = cpu_s();
+        double t0 = synth_now_s();
+        c_full = synth_cpu_s();
         if (network_build(g, r, &s, &n2, &e) != ERR_OK ||
             travel_nearest(n2, sites, 200, &r2, &e) != ERR_OK)
             goto fail;
-        t_full_g = now_s() - t0;
-        c_full = cpu_s() - c_full;
+        t_full_g = synth_now_s() - t0;
+        c_full = synth_cpu_s() - c_full;
         travel_result_free(r2);
         network_free(n2);
     }
     printf("full_rebuild_and_pass_s: %.3f (cpu %.3f)\n", t_full_g, c_full);
-    c_var = cpu_s();
+    c_var = synth_cpu_s();
     for (long v = 0; v < n_var; v++) {
         compare_diff_t d;
-        double t1 = now_s(), old;
+        double t1 = synth_now_s(), old;
         size_t ne, nres = 0;
         memset(closed, 0, sizeof closed);
         for (int k = 0; k < 8; k++)
-            if (edit_seg(net, rnd() % r->n_segs, 0.0, &e)) goto fail;
+            if (edit_seg(net, synth_rnd(&rng) % r->n_segs, 0.0, &e)) goto fail;
         for (int k = 0; k < 40; k++)
-            if (edit_seg(net, rnd() % r->n_segs, 0.3, &e)) goto fail;
+            if (edit_seg(net, synth_rnd(&rng) % r->n_segs, 0.3, &e)) goto fail;
         if (v % 10 == 0) {
-            int r0 = (int)(rnd() % (uint64_t)(n - 40)), c0 = (int)(rnd() % (uint64_t)(n - 40));
+            int r0 = (int)(synth_rnd(&rng) % (uint64_t)(n - 40)), c0 = (int)(synth_rnd(&rng) % (uint64_t)(n - 40));
             memset(mask, 0, nc);
             for (int rr = r0; rr < r0 + 40; rr++)
                 for (int cc = c0; cc < c0 + 40; cc++) mask[(size_t)rr * n + cc] = 1;
             if (network_edit_cells(net, mask, 0.0, NULL, &e) != ERR_OK) goto fail;
-            for (int k = 0; k < 5; k++) closed[rnd() % 200] = 1;
+            for (int k = 0; k < 5; k++) closed[synth_rnd(&rng) % 200] = 1;
         }
         ne = network_n_edits(net);
         free(changed);
         changed = malloc((ne + 1) * sizeof *changed);
         for (size_t i = 0; i < ne; i++) network_edit_get(net, i, &changed[i], &old);
-        double t2 = now_s();
+        double t2 = synth_now_s();
         if (sptree_resettle(&tree, net, changed, ne, closed, 200, tv, sv, &nres, &e) != ERR_OK)
             goto fail;
-        double t3 = now_s();
+        double t3 = synth_now_s();
         resettled += (double)nres;
         if (compare_cells(nc, g->people, tree.time_s, tv, 3600, limits, 3, NULL, 0, &d, delta,
                           label, &e) != ERR_OK)
             goto fail;
         pushed += d.pushed_beyond;
         compare_diff_destroy(&d);
-        double t4 = now_s();
+        double t4 = synth_now_s();
         t_apply += t2 - t1;
         t_search += t3 - t2;
         t_cmp += t4 - t3;
@@ -222,11 +129,11 @@ static int bench_variants(long cells, long n_var)
             /* The same variant by a full search: same times (to 1e-9), and its cost. */
             int64_t open[200];
             size_t n_open = 0;
-            double t5 = now_s();
+            double t5 = synth_now_s();
             for (int i = 0; i < 200; i++)
                 if (!closed[i]) open[n_open++] = sites[i];
             if (travel_nearest(net, open, n_open, &var, &e) != ERR_OK) goto fail;
-            t_fullpass += now_s() - t5;
+            t_fullpass += synth_now_s() - t5;
             n_fullpass++;
             for (size_t c = 0; c < nc; c++) {
                 double a = tv[c], b = var->time_s[c];
@@ -250,14 +157,14 @@ static int bench_variants(long cells, long n_var)
                "from the repair %.2g)\n", t_fullpass / (double)(n_fullpass ? n_fullpass : 1),
                n_fullpass, worst);
         printf("cpu_all_variants_s: %.2f (repairs, comparisons and the full checks)\n",
-               cpu_s() - c_var);
+               synth_cpu_s() - c_var);
         printf("ratio_to_full_rebuild: %.3f\n", per / t_full_g);
         printf("mean_people_pushed_beyond_60_min: %.0f\n", pushed / (double)n_var);
     }
     sptree_destroy(&tree);
     network_free(net);
-    free_roads(r);
-    free_grid(g);
+    synth_roads_free(r);
+    synth_grid_free(g);
     free(mask);
     free(delta);
     free(label);
@@ -273,8 +180,8 @@ fail:
 static int bench_links(long cells, int threads)
 {
     int n = (int)ceil(sqrt((double)cells));
-    grid_t *g = make_grid(n, 100.0);
-    roads_t *r = make_roads(g, 10);
+    grid_t *g = synth_grid(n, 100.0, &rng);
+    roads_t *r = synth_roads(g, 10);
     scen_t s;
     network_t *net = NULL;
     links_t *L = NULL;
@@ -288,16 +195,16 @@ static int bench_links(long cells, int threads)
     s.use_slope = 1;
     s.cover_default_factor = 1.0;
     s.mode = SCEN_MODE_VEHICLE;
-    for (int i = 0; i < 50; i++) cell[i] = (int64_t)(rnd() % ((uint64_t)n * n));
+    for (int i = 0; i < 50; i++) cell[i] = (int64_t)(synth_rnd(&rng) % ((uint64_t)n * n));
     sites.n = 50;
     sites.cell = cell;
     if (network_build(g, r, &s, &net, &e) != ERR_OK || links_build(r, &L, &e) != ERR_OK)
         goto fail;
     printf("## critical links on %d x %d cells, %zu links, 50 sites, vehicles, 30 min\n", n, n,
            L->n);
-    double t0 = now_s();
+    double t0 = synth_now_s();
     if (links_score(L, net, g->people, &sites, n, 1800, threads, &e) != ERR_OK) goto fail;
-    printf("links_total_s: %.2f (base tree %.2f, scores %.2f) on %d threads\n", now_s() - t0,
+    printf("links_total_s: %.2f (base tree %.2f, scores %.2f) on %d threads\n", synth_now_s() - t0,
            L->seconds_base, L->seconds_scores, threads);
     printf("links_scored: %zu\n", L->n_on_tree);
     printf("links_skipped_by_tree_rule: %zu\n", L->n - L->n_on_tree);
@@ -310,17 +217,17 @@ static int bench_links(long cells, int threads)
     /* What one link would cost with a full search instead. */
     {
         link_t full;
-        t0 = now_s();
+        t0 = synth_now_s();
         if (links_score_one_full(L, L->rank[0], net, g->people, &sites, n, 1800, &full, &e) !=
             ERR_OK)
             goto fail;
         printf("one_link_by_full_search_s: %.3f (top link pushed %.0f, full search %.0f)\n",
-               (now_s() - t0) / 2.0, L->l[L->rank[0]].pushed_beyond, full.pushed_beyond);
+               (synth_now_s() - t0) / 2.0, L->l[L->rank[0]].pushed_beyond, full.pushed_beyond);
     }
     links_free(L);
     network_free(net);
-    free_roads(r);
-    free_grid(g);
+    synth_roads_free(r);
+    synth_grid_free(g);
     return 0;
 fail:
     fprintf(stderr, "bench-whatif: %s\n", e.msg);
