@@ -53,7 +53,8 @@ def read_edges(path):
     return g
 
 
-def check_export(d):
+def read_sources(d):
+    """direction, node count and site nodes from an exported sources.csv."""
     direction, n_nodes, sites = None, 0, []
     with open(os.path.join(d, "sources.csv")) as f:
         for key, val in csv.reader(f):
@@ -63,6 +64,11 @@ def check_export(d):
                 n_nodes = int(val)
             elif key == "site":
                 sites.append(int(val))
+    return direction, n_nodes, sites
+
+
+def check_export(d):
+    direction, n_nodes, sites = read_sources(d)
     g = read_edges(os.path.join(d, "edges.csv"))
     g.add_nodes_from(range(n_nodes))
     # to_site: people travel to the site, so search the reversed graph from the sites.

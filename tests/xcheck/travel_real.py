@@ -17,21 +17,13 @@ import sys
 import networkx as nx
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from travel_networkx import close, read_edges  # noqa: E402
+from travel_networkx import close, read_edges, read_sources  # noqa: E402
 
 
 def main():
     d, name = sys.argv[1], sys.argv[2]
     passed = failed = 0
-    direction, n_nodes, sites = None, 0, []
-    with open(os.path.join(d, "sources.csv")) as f:
-        for key, val in csv.reader(f):
-            if key == "direction":
-                direction = val
-            elif key == "n_nodes":
-                n_nodes = int(val)
-            elif key == "site":
-                sites.append(int(val))
+    direction, n_nodes, sites = read_sources(d)
     g = read_edges(os.path.join(d, "edges.csv"))
     g.add_nodes_from(range(n_nodes))
     if direction == "to_site":
