@@ -123,4 +123,7 @@ install: $(BIN)
 clean:
 	rm -rf build build-asan out
 
--include $(LIB_OBJ:.o=.d) $(CMD_OBJ:.o=.d)
+# The shared test and bench objects are kept between builds (not intermediates).
+.SECONDARY: $(SUPPORT_OBJ) $(TOOL_SUPPORT_OBJ)
+
+-include $(LIB_OBJ:.o=.d) $(CMD_OBJ:.o=.d) $(SUPPORT_OBJ:.o=.d) $(TOOL_SUPPORT_OBJ:.o=.d)
