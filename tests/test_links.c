@@ -26,8 +26,8 @@
 static roads_t *mk_roads(size_t n_nodes, size_t n_segs)
 {
     roads_t *r = fx_roads(n_nodes, n_segs, 2);
-    r->classes[0] = (road_class_count_t){"main", 0, 0.0, 2.0, 15.0, 1};
-    r->classes[1] = (road_class_count_t){"path", 0, 0.0, 1.5, 0.0, 1};
+    r->classes[0] = (road_class_count_t){strdup("main"), 0, 0.0, 2.0, 15.0, 1};
+    r->classes[1] = (road_class_count_t){strdup("path"), 0, 0.0, 1.5, 0.0, 1};
     return r;
 }
 
@@ -119,8 +119,8 @@ done:
     links_free(L);
     network_free(net);
     free_site(site);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
 }
 
 /* Two mirrored roads from W (cell 1,3) to E (cell 19,3), one along row 1 and one
@@ -170,8 +170,8 @@ done:
     links_free(L);
     network_free(net);
     free_site(site);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
 }
 
 /* A mixed network: a loop, a dead end, a chain of several segments, a one-way
@@ -267,8 +267,8 @@ static void test_against_full(int mode, int direction, int threads)
 done:
     links_free(L);
     network_free(net);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
 }
 
 /* ---- export mode for tests/xcheck/links_networkx.sh ---- */

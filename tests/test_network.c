@@ -73,7 +73,7 @@ static void test_slope_edges(void)
     CHECK(network_build(g, NULL, &s, &net, &e) == ERR_OK);
     CHECK_REL(weight_of(net, 0, 1), 100.0, 1e-12);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 }
 
 static void test_counts_and_mapping(void)
@@ -137,7 +137,7 @@ static void test_counts_and_mapping(void)
     CHECK(weight_of(net, 4, 0) < 0.0);
     CHECK(weight_of(net, 4, 8) > 0.0);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 }
 
 static void test_landcover_and_rows(void)
@@ -166,7 +166,7 @@ static void test_landcover_and_rows(void)
     CHECK(weight_of(net, 5, 8) < 0.0);
     CHECK(weight_of(net, 7, 8) < 0.0);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 
     /* Rows of different size, as on a lon/lat grid: between rows the mean is used. */
     g = fx_lattice(2, 2, 10.0);
@@ -181,7 +181,7 @@ static void test_landcover_and_rows(void)
     CHECK_REL(weight_of(net, 0, 2), 12.0, 1e-12);
     CHECK_REL(weight_of(net, 0, 3), hypot(10.0, 12.0), 1e-12);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 }
 
 static void test_roads(void)
@@ -304,8 +304,8 @@ static void test_roads(void)
     network_get_stats(net, &st);
     CHECK(st.n_road_off_grid >= 1);
     network_free(net);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
 }
 
 static void test_sources(void)
@@ -348,7 +348,7 @@ static void test_sources(void)
     CHECK(network_attach_sources(net, sites, 1, &e) == ERR_OK);
     CHECK_NEAR(weight_of(net, 3, 1), 0.0, 0.0);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 }
 
 static void test_errors(void)
@@ -434,8 +434,8 @@ static void test_errors(void)
     CHECK(network_build(g, r, &s, &net, &e) == ERR_OK);
     network_free(net);
     network_free(NULL);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
 }
 
 int main(void)

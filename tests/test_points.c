@@ -94,7 +94,7 @@ static void test_happy(void)
         CHECK(p != NULL && p->n == 0);
         points_free(p);
     }
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_reproject(void)
@@ -126,7 +126,7 @@ static void test_reproject(void)
         CHECK(p->cell[1] == 501);
     }
     points_free(p);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_outside_and_barrier(void)
@@ -173,7 +173,7 @@ static void test_outside_and_barrier(void)
     g->barrier[50 * 100 + 50] = 0;
     CHECK(points_load(&l, "existing sites", g, &p, &e) == ERR_OK && p != NULL && p->n == 1);
     points_free(p);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_bad_values(void)
@@ -272,7 +272,7 @@ static void test_bad_values(void)
         CHECK(points_load(&l, "depots", g, &p, &e) == ERR_INPUT);
         CHECK_STR_HAS(e.msg, "no depots file given");
     }
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_osm_points(void)
@@ -309,7 +309,7 @@ static void test_osm_points(void)
         }
     }
     points_free(p);
-    fx_grid_free(g);
+    grid_free(g);
 
     /* The roads grid (lon 9.46..9.66, lat 47.02..47.28) leaves 156 points out
      * (ogrinfo SQL count of points outside those bounds). */
@@ -318,7 +318,7 @@ static void test_osm_points(void)
     CHECK(points_load(&l, "existing sites", g, &p, &e) == ERR_INPUT && p == NULL);
     CHECK_STR_HAS(e.msg, "existing sites: 156 points in '");
     CHECK_STR_HAS(e.msg, " and 146 more");
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 int main(void)

@@ -153,7 +153,7 @@ static void test_cross(void)
         free_scen(s);
         warn_destroy(&w);
     }
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_bridge(void)
@@ -215,7 +215,7 @@ static void test_bridge(void)
     }
     CHECK(w.n == 0);
     warn_destroy(&w);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_snap(void)
@@ -257,7 +257,7 @@ static void test_snap(void)
     roads_free(r);
     CHECK(w.n == 0);
     warn_destroy(&w);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_snap_geographic(void)
@@ -288,7 +288,7 @@ static void test_snap_geographic(void)
     CHECK(r != NULL && r->n_nodes == 3);
     roads_free(r);
     warn_destroy(&w);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_oneway(void)
@@ -366,7 +366,7 @@ static void test_oneway(void)
     }
     CHECK(w.n == 0);
     warn_destroy(&w);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_reproject(void)
@@ -406,7 +406,7 @@ static void test_reproject(void)
     }
     roads_free(r);
     warn_destroy(&w);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_clip(void)
@@ -441,7 +441,7 @@ static void test_clip(void)
     }
     roads_free(r);
     warn_destroy(&w);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_classes_and_shapes(void)
@@ -482,7 +482,7 @@ static void test_classes_and_shapes(void)
     }
     roads_free(r);
     warn_destroy(&w);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 static void test_empty_and_errors(void)
@@ -598,7 +598,7 @@ static void test_empty_and_errors(void)
     CHECK(warn_has(&w, "no road layer given"));
     roads_free(r);
     warn_destroy(&w);
-    fx_grid_free(g);
+    grid_free(g);
 }
 
 /* Liechtenstein OSM extract on a 0.001-degree grid covering all its highways. Returns NULL
@@ -621,7 +621,7 @@ static roads_t *load_liechtenstein(warn_list_t *w, err_t *e)
     s = mk_scen(path, 1.0);
     roads_load(s, g, &r, w, e);
     free_scen(s);
-    fx_grid_free(g);
+    grid_free(g);
     return r;
 }
 

@@ -127,7 +127,7 @@ static double max_dir_error(int neighbours, int n)
     }
     travel_result_free(res);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
     return worst;
 }
 
@@ -161,7 +161,7 @@ static void test_lattice(void)
     CHECK(worst < 1e-12);
     travel_result_free(res);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 
     /* Worst direction error against the straight line, from lattice geometry:
      * 8 neighbours: sqrt(1 + (sqrt2 - 1)^2) - 1 = 8.24%, at slope tan 22.5 deg;
@@ -205,8 +205,8 @@ static void test_road_shortcut(void)
     CHECK_REL(res->time_s[network_cell_node(net, 59, 1)], 5900.0, 1e-12);
     travel_result_free(res);
     network_free(net);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
 }
 
 static void test_bridge(void)
@@ -248,8 +248,8 @@ static void test_bridge(void)
     CHECK(res->site[network_cell_node(net, 4, 1)] == 0);
     travel_result_free(res);
     network_free(net);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
 }
 
 static void test_oneway(void)
@@ -297,8 +297,8 @@ static void test_oneway(void)
     CHECK_REL(res->time_s[east], 2900.0, 1e-12);
     travel_result_free(res);
     network_free(net);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
 }
 
 static void test_barrier_ring(void)
@@ -327,7 +327,7 @@ static void test_barrier_ring(void)
     CHECK(isinf(res->time_s[0]));
     travel_result_free(res);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 }
 
 static void test_direction_slope(void)
@@ -362,7 +362,7 @@ static void test_direction_slope(void)
     travel_result_free(c);
     network_free(to);
     network_free(from);
-    fx_lattice_free(g);
+    grid_free(g);
 }
 
 /* ---- against igraph on the full graph ---- */
@@ -485,8 +485,8 @@ static void test_against_igraph(void)
         compare_bounded(net, src, 12, 900.0);
         compare_bounded(net, src, 3, 0.0);
         network_free(net);
-        fx_roads_free(r);
-        fx_lattice_free(g);
+        roads_free(r);
+        grid_free(g);
     }
 }
 
@@ -558,8 +558,8 @@ static void test_errors(void)
     travel_ws_free(NULL);
     network_free(net);
     network_free(net2);
-    fx_lattice_free(g);
-    fx_lattice_free(g2);
+    grid_free(g);
+    grid_free(g2);
 
     /* A single cell: no edges at all; its own site reaches it in 0 s. */
     g = fx_lattice(1, 1, 10.0);
@@ -569,7 +569,7 @@ static void test_errors(void)
     CHECK(res != NULL && res->time_s[0] == 0.0 && res->site[0] == 0);
     travel_result_free(res);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 }
 
 /* ---- helper modes for the networkx cross-check ---- */
@@ -640,8 +640,8 @@ static int export_one(const char *dir, int vehicle_from, err_t *e)
 done:
     travel_result_free(res);
     network_free(net);
-    fx_roads_free(r);
-    fx_lattice_free(g);
+    roads_free(r);
+    grid_free(g);
     return rc;
 }
 

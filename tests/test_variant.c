@@ -156,7 +156,7 @@ done:
     travel_result_free(c);
     travel_result_free(d);
     network_free(net);
-    fx_lattice_free(g);
+    grid_free(g);
 }
 
 /* ---- variants on in-memory inputs ---- */
@@ -389,7 +389,7 @@ static void test_apply(void)
     }
 done:
     network_free(net);
-    fx_lattice_free(w.g);
+    grid_free(w.g);
 }
 
 /* The repaired tree against a full igraph search on the edited network, for
@@ -472,7 +472,7 @@ done:
     sptree_destroy(&t);
     sptree_destroy(NULL);
     network_free(net);
-    fx_lattice_free(w.g);
+    grid_free(w.g);
     free(mask);
 }
 

@@ -19,6 +19,7 @@
 #include "cover.h"
 #include "inputs.h"
 #include "network.h"
+#include "synth.h"
 #include "progress.h"
 #include "scen_siting.h"
 #include "site.h"
@@ -85,34 +86,10 @@ static grid_t *make_grid(int n)
 /* Tracks along every 'step'-th row and column, joined at the crossings. */
 static roads_t *make_roads(const grid_t *g, int step)
 {
-    roads_t *r = calloc(1, sizeof *r);
-    int k = (g->nx - 1) / step + 1;
-    size_t nn = (size_t)k * k, ns = 2 * (size_t)k * (k - 1);
+    roads_t *r = synth_roads(g, step);
     if (r == NULL) return NULL;
-    r->n_nodes = nn;
-    r->x = malloc(nn * sizeof(double));
-    r->y = malloc(nn * sizeof(double));
-    r->node_junction = malloc(nn);
-    r->segs = calloc(ns ? ns : 1, sizeof *r->segs);
-    r->classes = calloc(1, sizeof *r->classes);
-    if (!r->x || !r->y || !r->node_junction || !r->segs || !r->classes) return NULL;
-    r->n_classes = 1;
     r->classes[0].name = strdup("track");
-    r->classes[0].walk_mps = 5.0 / 3.6;
     r->classes[0].vehicle_mps = 15.0 / 3.6;
-    for (int i = 0; i < k; i++)
-        for (int j = 0; j < k; j++) {
-            size_t id = (size_t)i * k + j;
-            r->x[id] = g->gt[0] + (j * step + 0.5) * g->gt[1];
-            r->y[id] = g->gt[3] + (i * step + 0.5) * g->gt[5];
-            r->node_junction[id] = 1;
-        }
-    for (int i = 0; i < k; i++)
-        for (int j = 0; j < k; j++) {
-            int32_t id = i * k + j;
-            if (j + 1 < k) r->segs[r->n_segs++] = (road_seg_t){id, id + 1, 0, 0, step * 100.0, 0};
-            if (i + 1 < k) r->segs[r->n_segs++] = (road_seg_t){id, id + k, 0, 0, step * 100.0, 0};
-        }
     return r;
 }
 

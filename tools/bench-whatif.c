@@ -163,8 +163,8 @@ static int bench_variants(long cells, long n_var)
     }
     sptree_destroy(&tree);
     network_free(net);
-    synth_roads_free(r);
-    synth_grid_free(g);
+    roads_free(r);
+    grid_free(g);
     free(mask);
     free(delta);
     free(label);
@@ -226,8 +226,8 @@ static int bench_links(long cells, int threads)
     }
     links_free(L);
     network_free(net);
-    synth_roads_free(r);
-    synth_grid_free(g);
+    roads_free(r);
+    grid_free(g);
     return 0;
 fail:
     fprintf(stderr, "bench-whatif: %s\n", e.msg);

@@ -34,15 +34,6 @@ grid_t *fx_grid(int nx, int ny, double x0, double y0, double cs, int epsg)
     return g;
 }
 
-void fx_grid_free(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->wkt);
-    free(g->people);
-    free(g->barrier);
-    free(g);
-}
-
 void fx_write_layer(const char *path, const char *driver, const char *layer, int epsg,
                     OGRwkbGeometryType type, const char *const *fields, const fx_feat_t *fs,
                     size_t n)
@@ -119,19 +110,6 @@ grid_t *fx_lattice(int nx, int ny, double cell)
     return g;
 }
 
-void fx_lattice_free(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->row_dx_m);
-    free(g->row_dy_m);
-    free(g->row_area_m2);
-    free(g->people);
-    free(g->elevation);
-    free(g->landcover);
-    free(g->barrier);
-    free(g);
-}
-
 void fx_scen_init(scen_t *s)
 {
     memset(s, 0, sizeof *s);
@@ -163,13 +141,3 @@ roads_t *fx_roads(size_t n_nodes, size_t n_segs, size_t n_classes)
     return r;
 }
 
-void fx_roads_free(roads_t *r)
-{
-    if (r == NULL) return;
-    free(r->x);
-    free(r->y);
-    free(r->node_junction);
-    free(r->segs);
-    free(r->classes);
-    free(r);
-}

@@ -12,16 +12,14 @@
 #include "scenario.h"
 
 /* nx x ny cells of size cs (CRS units), top-left corner (x0, y0), no people.
- * Free with fx_grid_free. Exits the test with status 2 when out of memory. */
+ * Free with grid_free. Exits the test with status 2 when out of memory. */
 grid_t *fx_grid(int nx, int ny, double x0, double y0, double cs, int epsg);
-void fx_grid_free(grid_t *g);   /* NULL-safe */
 
 /* A planar lattice of nx x ny square cells of 'cell' metres, no CRS, origin top-left
  * at (0, ny*cell): cell (col,row) has its centre at ((col+.5)cell, (ny-row-.5)cell).
- * Per-row sizes and areas filled, no people. Free with fx_lattice_free, which also
- * frees any elevation, land-cover and barrier layer a test adds. */
+ * Per-row sizes and areas filled, no people. Free with grid_free, which also frees
+ * any elevation, land-cover and barrier layer a test adds. */
 grid_t *fx_lattice(int nx, int ny, double cell);
-void fx_lattice_free(grid_t *g);   /* NULL-safe */
 
 /* A scenario for hand-made networks: walking at 1 m/s to the sites, 8 neighbours,
  * slope on (flat without elevation), land-cover factor 1, limit 60 min, bands 10
@@ -29,9 +27,9 @@ void fx_lattice_free(grid_t *g);   /* NULL-safe */
 void fx_scen_init(scen_t *s);
 
 /* Roads with room for n_nodes nodes, n_segs segments and n_classes zeroed classes
- * (class speeds are the test's to set). Free with fx_roads_free. */
+ * (class speeds are the test's to set; names, if any, must be heap strings). Free
+ * with roads_free. */
 roads_t *fx_roads(size_t n_nodes, size_t n_segs, size_t n_classes);
-void fx_roads_free(roads_t *r);   /* NULL-safe */
 
 /* A feature to write: WKT geometry and up to FX_MAX_FIELDS string values (NULL = unset). */
 #define FX_MAX_FIELDS 5

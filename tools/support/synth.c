@@ -50,7 +50,7 @@ grid_t *synth_grid(int n, double cell, synth_rng_t *rng)
     g->people = malloc(nc * sizeof(double));
     g->elevation = malloc(nc * sizeof(float));
     if (!g->row_dx_m || !g->row_dy_m || !g->people || !g->elevation) {
-        synth_grid_free(g);
+        grid_free(g);
         return NULL;
     }
     for (int r = 0; r < n; r++) g->row_dx_m[r] = g->row_dy_m[r] = cell;
@@ -61,16 +61,6 @@ grid_t *synth_grid(int n, double cell, synth_rng_t *rng)
             g->elevation[i] = (float)(20.0 * sin(c / 3.2) + 20.0 * cos(r / 4.1));
         }
     return g;
-}
-
-void synth_grid_free(grid_t *g)
-{
-    if (g == NULL) return;
-    free(g->row_dx_m);
-    free(g->row_dy_m);
-    free(g->people);
-    free(g->elevation);
-    free(g);
 }
 
 roads_t *synth_roads(const grid_t *g, int step)
@@ -87,7 +77,7 @@ roads_t *synth_roads(const grid_t *g, int step)
     r->segs = calloc(ns ? ns : 1, sizeof *r->segs);
     r->classes = calloc(1, sizeof *r->classes);
     if (!r->x || !r->y || !r->node_junction || !r->segs || !r->classes) {
-        synth_roads_free(r);
+        roads_free(r);
         return NULL;
     }
     r->n_classes = 1;
@@ -109,13 +99,3 @@ roads_t *synth_roads(const grid_t *g, int step)
     return r;
 }
 
-void synth_roads_free(roads_t *r)
-{
-    if (r == NULL) return;
-    free(r->x);
-    free(r->y);
-    free(r->node_junction);
-    free(r->segs);
-    free(r->classes);
-    free(r);
-}

@@ -20,12 +20,10 @@ double synth_cpu_s(void);     /* CPU seconds of the whole process (all threads) 
 double synth_peak_bytes(void);/* peak resident size (getrusage ru_maxrss) */
 
 /* n x n cells of 'cell' metres, 0..39 people each, hills of about 2 km wavelength
- * and 40 m relief (slopes up to ~0.1). NULL when out of memory. */
+ * and 40 m relief (slopes up to ~0.1). NULL when out of memory; free with grid_free. */
 grid_t *synth_grid(int n, double cell, synth_rng_t *rng);
-void synth_grid_free(grid_t *g);     /* NULL-safe */
 /* Roads along every 'step'-th row and column (5 km/h walking, 40 km/h by vehicle),
- * joined at the crossings. */
+ * joined at the crossings. Free with roads_free. */
 roads_t *synth_roads(const grid_t *g, int step);
-void synth_roads_free(roads_t *r);   /* NULL-safe */
 
 #endif
