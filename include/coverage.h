@@ -31,6 +31,8 @@ int coverage_bands(size_t n_cells, const double *people, const double *time_s,
                    const int32_t *zone, size_t n_zones, const double *limits_s,
                    size_t n_bands, band_table_t *out, err_t *e);
 void coverage_bands_destroy(band_table_t *t);
+/* Label of column 'col' of t into buf: "0-30 min", "over 120 min", "unreachable". */
+void coverage_band_label(const band_table_t *t, size_t col, char *buf, size_t n);
 /* Total of one column over all rows (zones + outside). */
 double coverage_band_total(const band_table_t *t, size_t col);
 

@@ -28,6 +28,17 @@ int main(void)
         for (size_t c = 0; c < BAND_COLS(&b); c++) s += coverage_band_total(&b, c);
         CHECK_NEAR(s, 1500, 0);
     }
+    {
+        char lab[32];
+        coverage_band_label(&b, 0, lab, sizeof lab);
+        CHECK(strcmp(lab, "0-30 min") == 0);
+        coverage_band_label(&b, 2, lab, sizeof lab);
+        CHECK(strcmp(lab, "60-120 min") == 0);
+        coverage_band_label(&b, 3, lab, sizeof lab);
+        CHECK(strcmp(lab, "over 120 min") == 0);
+        coverage_band_label(&b, 4, lab, sizeof lab);
+        CHECK(strcmp(lab, "unreachable") == 0);
+    }
     coverage_bands_destroy(&b);
 
     /* A time exactly on a limit belongs to that band (<= limit). */

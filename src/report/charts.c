@@ -12,6 +12,7 @@
 
 #include "output.h"
 #include "render.h"
+#include "render_internal.h"
 
 #define FONT "DejaVu Sans"
 #define LABEL_W 210.0   /* room for group names left of the bars */
@@ -56,17 +57,9 @@ static void text_right(cairo_t *cr, double x, double y, const char *s, double ma
 {
     cairo_text_extents_t te;
     char buf[256];
-    size_t n;
 
-    snprintf(buf, sizeof buf, "%s", s);
-    n = strlen(buf);
+    render_fit_text(cr, s, max_w, buf, sizeof buf);
     cairo_text_extents(cr, buf, &te);
-    while (te.x_advance > max_w && n > 4) {
-        n--;
-        while (n > 0 && ((unsigned char)buf[n] & 0xC0) == 0x80) n--;
-        memcpy(buf + n, "\xe2\x80\xa6", 4);
-        cairo_text_extents(cr, buf, &te);
-    }
     cairo_move_to(cr, x - te.x_advance, y);
     cairo_show_text(cr, buf);
 }

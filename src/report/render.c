@@ -5,6 +5,7 @@
  * resampling (average, mode) and then sampled to image pixels, so memory is
  * bounded by the image, not by the grid. */
 #include "render.h"
+#include "render_internal.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -693,23 +694,31 @@ static void font(cairo_t *cr, double size, int bold)
     cairo_set_font_size(cr, size);
 }
 
-/* Text at (x, y) baseline, cut with an ellipsis to max_w pixels. */
-static void text_fit(cairo_t *cr, double x, double y, const char *s, double max_w)
+void render_fit_text(cairo_t *cr, const char *s, double max_w, char *buf, size_t size)
 {
     cairo_text_extents_t te;
-    char buf[512];
     size_t n;
 
-    snprintf(buf, sizeof buf, "%s", s);
+    snprintf(buf, size, "%s", s);
     n = strlen(buf);
     cairo_text_extents(cr, buf, &te);
     while (te.x_advance > max_w && n > 4) {
-        /* Step back over UTF-8 continuation bytes so the cut stays valid. */
+        /* Leave room for the ellipsis, then step back over UTF-8 continuation
+         * bytes so the cut stays valid. */
         n--;
+        if (n + 4 > size) n = size - 4;
         while (n > 0 && ((unsigned char)buf[n] & 0xC0) == 0x80) n--;
         memcpy(buf + n, "\xe2\x80\xa6", 4);   /* ellipsis */
         cairo_text_extents(cr, buf, &te);
     }
+}
+
+/* Text at (x, y) baseline, cut with an ellipsis to max_w pixels. */
+static void text_fit(cairo_t *cr, double x, double y, const char *s, double max_w)
+{
+    char buf[512];
+
+    render_fit_text(cr, s, max_w, buf, sizeof buf);
     cairo_move_to(cr, x, y);
     cairo_show_text(cr, buf);
 }

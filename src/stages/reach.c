@@ -182,18 +182,6 @@ done:
     return rc;
 }
 
-/* Band label for column 'col' of t: "0-30", "30-60", ">120", "unreachable". */
-static void band_label(const band_table_t *t, size_t col, char *buf, size_t n)
-{
-    if (col < t->n_bands)
-        snprintf(buf, n, "%g-%g min", col ? t->limits_s[col - 1] / 60.0 : 0.0,
-                 t->limits_s[col] / 60.0);
-    else if (col == t->n_bands)
-        snprintf(buf, n, "over %g min", t->limits_s[t->n_bands - 1] / 60.0);
-    else
-        snprintf(buf, n, "unreachable");
-}
-
 static table_t *bands_table(const band_table_t *b, const districts_t *d, double total)
 {
     static const char *names[] = {"district", "band", "from_min", "to_min", "people", "share"};
@@ -217,7 +205,7 @@ static table_t *bands_table(const band_table_t *b, const districts_t *d, double 
                 table_free(t);
                 return NULL;
             }
-            band_label(b, col, label, sizeof label);
+            coverage_band_label(b, col, label, sizeof label);
             table_set_text(t, (size_t)r, 0, zname);
             table_set_text(t, (size_t)r, 1, label);
             table_set_num(t, (size_t)r, 2, col == 0 ? 0 : col <= b->n_bands ? b->limits_s[col - 1] / 60.0 : NAN);
@@ -343,7 +331,7 @@ static cJSON *bands_json(const band_table_t *b, const districts_t *d)
 
     for (size_t col = 0; col < BAND_COLS(b); col++) {
         cJSON *r = cJSON_CreateObject();
-        band_label(b, col, label, sizeof label);
+        coverage_band_label(b, col, label, sizeof label);
         cJSON_AddStringToObject(r, "band", label);
         cJSON_AddNumberToObject(r, "people", coverage_band_total(b, col));
         cJSON_AddItemToArray(all, r);
@@ -354,7 +342,7 @@ static cJSON *bands_json(const band_table_t *b, const districts_t *d)
             cJSON *arr = cJSON_CreateArray();
             for (size_t col = 0; col < BAND_COLS(b); col++) {
                 cJSON *r = cJSON_CreateObject();
-                band_label(b, col, label, sizeof label);
+                coverage_band_label(b, col, label, sizeof label);
                 cJSON_AddStringToObject(r, "band", label);
                 cJSON_AddNumberToObject(r, "people", BAND_AT(b, z, col));
                 cJSON_AddItemToArray(arr, r);
@@ -480,7 +468,7 @@ void reach_print(const inputs_t *in, const points_t *sites, const districts_t *d
            in->scen->mode == SCEN_MODE_WALK ? "walking" : "by vehicle");
     for (size_t col = 0; col < BAND_COLS(b); col++) {
         double p = coverage_band_total(b, col);
-        band_label(b, col, label, sizeof label);
+        coverage_band_label(b, col, label, sizeof label);
         printf("  %-16s %12.0f  %5.1f%%\n", label, p, total > 0 ? 100.0 * p / total : 0.0);
     }
     if (districts != NULL) {

@@ -4,6 +4,7 @@
 #include "coverage.h"
 
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -62,6 +63,17 @@ void coverage_bands_destroy(band_table_t *t)
     if (t == NULL) return;
     free(t->people);
     t->people = NULL;
+}
+
+void coverage_band_label(const band_table_t *t, size_t col, char *buf, size_t n)
+{
+    if (col < t->n_bands)
+        snprintf(buf, n, "%g-%g min", col ? t->limits_s[col - 1] / 60.0 : 0.0,
+                 t->limits_s[col] / 60.0);
+    else if (col == t->n_bands)
+        snprintf(buf, n, "over %g min", t->limits_s[t->n_bands - 1] / 60.0);
+    else
+        snprintf(buf, n, "unreachable");
 }
 
 double coverage_band_total(const band_table_t *t, size_t col)

@@ -199,17 +199,6 @@ done:
     return rc;
 }
 
-static void band_name(const band_table_t *t, size_t col, char *buf, size_t n)
-{
-    if (col < t->n_bands)
-        snprintf(buf, n, "%g-%g min", col ? t->limits_s[col - 1] / 60.0 : 0.0,
-                 t->limits_s[col] / 60.0);
-    else if (col == t->n_bands)
-        snprintf(buf, n, "over %g min", t->limits_s[t->n_bands - 1] / 60.0);
-    else
-        snprintf(buf, n, "unreachable");
-}
-
 /* Rows of compare_bands.csv for one run (base: base == NULL, change 0). */
 static int add_band_rows(table_t *t, const char *name, const band_table_t *b,
                          const band_table_t *base, const districts_t *d)
@@ -226,7 +215,7 @@ static int add_band_rows(table_t *t, const char *name, const band_table_t *b,
                                     : BAND_AT(base, z - 1, cc);
             long r = table_add_row(t);
             if (r < 0) return ERR_NOMEM;
-            band_name(b, col, label, sizeof label);
+            coverage_band_label(b, col, label, sizeof label);
             table_set_text(t, (size_t)r, 0, name);
             table_set_text(t, (size_t)r, 1, zn);
             table_set_text(t, (size_t)r, 2, label);
@@ -403,7 +392,7 @@ static cJSON *variant_json(const inputs_t *in, const districts_t *d, const compa
     arr = cJSON_AddArrayToObject(o, "bands");
     for (size_t col = 0; col < BAND_COLS(&r->bands); col++) {
         cJSON *b = cJSON_CreateObject();
-        band_name(&r->bands, col, label, sizeof label);
+        coverage_band_label(&r->bands, col, label, sizeof label);
         cJSON_AddStringToObject(b, "band", label);
         cJSON_AddNumberToObject(b, "people", coverage_band_total(&r->bands, col));
         if (col < in->scen->n_bands) {
