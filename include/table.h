@@ -33,5 +33,7 @@ double table_num(const table_t *t, size_t row, size_t col);       /* NAN when un
 /* Write as CSV (RFC 4180 quoting, '.' decimals, header row). Atomic. Reals are
  * printed with up to 'digits' significant digits. */
 int table_write_csv(const table_t *t, const char *path, int digits, err_t *e);
+/* The outputs' usual form: 'dir/name', reals with 10 significant digits. */
+int table_save(const table_t *t, const char *dir, const char *name, err_t *e);
 
 #endif

@@ -133,6 +133,16 @@ int main(void)
         CHECK(table_add_row(t) == 1);
         table_set_text(t, 1, 0, "B");
         CHECK(table_write_csv(t, csv, 6, &e) == ERR_OK);
+        /* table_save writes the same file into a folder by name. */
+        CHECK(table_save(t, dir, "saved.csv", &e) == ERR_OK);
+        {
+            char *sp = out_join(dir, "saved.csv");
+            CHECK(exists(sp));
+            unlink(sp);
+            free(sp);
+        }
+        CHECK(table_save(t, "/nonexistent/dir", "x.csv", &e) == ERR_IO);
+        CHECK_STR_HAS(e.msg, "/nonexistent/dir/x.csv");
         f = fopen(csv, "r");
         CHECK(f != NULL);
         if (f) {

@@ -139,3 +139,14 @@ int table_write_csv(const table_t *t, const char *path, int digits, err_t *e)
     }
     return out_file_commit(&of, e);
 }
+
+int table_save(const table_t *t, const char *dir, const char *name, err_t *e)
+{
+    char *path = out_join(dir, name);
+    int rc;
+
+    if (path == NULL) return err_set(e, ERR_NOMEM, "out of memory writing %s", name);
+    rc = table_write_csv(t, path, 10, e);
+    free(path);
+    return rc;
+}

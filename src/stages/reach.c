@@ -372,9 +372,7 @@ int reach_write(const char *outdir, const inputs_t *in, const points_t *sites,
         rc = err_set(e, ERR_NOMEM, "out of memory building reach tables");
         goto done;
     }
-    p = out_join(outdir, "bands.csv");
-    rc = table_write_csv(bt, p, 10, e);
-    free(p);
+    rc = table_save(bt, outdir, "bands.csv", e);
     if (rc != ERR_OK) goto done;
     if (res->n_groups > 0) {
         table_t *gt = groups_table(in->scen, res, districts);
@@ -382,15 +380,11 @@ int reach_write(const char *outdir, const inputs_t *in, const points_t *sites,
             rc = err_set(e, ERR_NOMEM, "out of memory building the group table");
             goto done;
         }
-        p = out_join(outdir, "groups.csv");
-        rc = table_write_csv(gt, p, 10, e);
-        free(p);
+        rc = table_save(gt, outdir, "groups.csv", e);
         table_free(gt);
         if (rc != ERR_OK) goto done;
     }
-    p = out_join(outdir, "sites.csv");
-    rc = table_write_csv(st, p, 10, e);
-    free(p);
+    rc = table_save(st, outdir, "sites.csv", e);
     if (rc != ERR_OK) goto done;
     p = out_join(outdir, "catchments.gpkg");
     rc = out_write_label_polygons(p, "catchments", g, res->site, st, e);

@@ -869,16 +869,6 @@ static table_t *curve_table(const site_data_t *d, const site_result_t *r)
     return t;
 }
 
-static int write_table(const char *outdir, const char *name, const table_t *t, err_t *e)
-{
-    char *path = out_join(outdir, name);
-    int rc;
-    if (path == NULL) return err_set(e, ERR_NOMEM, "out of memory");
-    rc = table_write_csv(t, path, 10, e);
-    free(path);
-    return rc;
-}
-
 static int write_rasters(const char *outdir, const site_data_t *d, const site_result_t *r,
                          const int32_t *row_of, err_t *e)
 {
@@ -943,7 +933,7 @@ int site_write(const char *outdir, const scen_t *s, const site_data_t *d,
         rc = err_set(e, ERR_NOMEM, "out of memory writing site outputs");
         goto done;
     }
-    if ((rc = write_table(outdir, "sites.csv", t, e)) != ERR_OK) goto done;
+    if ((rc = table_save(t, outdir, "sites.csv", e)) != ERR_OK) goto done;
     if (d->is_grid) {
         double *x = malloc((table_rows(t) + 1) * sizeof *x), *y = malloc((table_rows(t) + 1) * sizeof *y);
         char *path = out_join(outdir, "sites.gpkg");
@@ -966,7 +956,7 @@ int site_write(const char *outdir, const scen_t *s, const site_data_t *d,
             rc = err_set(e, ERR_NOMEM, "out of memory writing site outputs");
             goto done;
         }
-        if ((rc = write_table(outdir, "assignment.csv", t, e)) != ERR_OK) goto done;
+        if ((rc = table_save(t, outdir, "assignment.csv", e)) != ERR_OK) goto done;
     }
     table_free(t);
     t = unserved_table(d, r);
@@ -974,7 +964,7 @@ int site_write(const char *outdir, const scen_t *s, const site_data_t *d,
         rc = err_set(e, ERR_NOMEM, "out of memory writing site outputs");
         goto done;
     }
-    if ((rc = write_table(outdir, "unserved.csv", t, e)) != ERR_OK) goto done;
+    if ((rc = table_save(t, outdir, "unserved.csv", e)) != ERR_OK) goto done;
     if (r->n_curve > 0) {
         table_free(t);
         t = curve_table(d, r);
@@ -982,7 +972,7 @@ int site_write(const char *outdir, const scen_t *s, const site_data_t *d,
             rc = err_set(e, ERR_NOMEM, "out of memory writing site outputs");
             goto done;
         }
-        if ((rc = write_table(outdir, "coverage_curve.csv", t, e)) != ERR_OK) goto done;
+        if ((rc = table_save(t, outdir, "coverage_curve.csv", e)) != ERR_OK) goto done;
     }
 
     /* summary.json: the "site" section, and its headline keys at the top level. */

@@ -191,16 +191,6 @@ static double weighted_of(const robust_problem_t *p, const double *c)
     return z;
 }
 
-static int write_csv(const char *outdir, const char *name, const table_t *t, err_t *e)
-{
-    char *path = out_join(outdir, name);
-    int rc;
-    if (path == NULL) return err_set(e, ERR_NOMEM, "out of memory");
-    rc = table_write_csv(t, path, 10, e);
-    free(path);
-    return rc;
-}
-
 int site_robust_write(const char *outdir, const scen_t *s, const site_data_t *d,
                       const site_robust_t *r, cJSON *summary, err_t *e)
 {
@@ -252,8 +242,8 @@ int site_robust_write(const char *outdir, const scen_t *s, const site_data_t *d,
         table_set_num(ts, (size_t)row, 3, d->site_x[i]);
         table_set_num(ts, (size_t)row, 4, d->site_y[i]);
     }
-    if ((rc = write_csv(outdir, "robust.csv", t, e)) != ERR_OK ||
-        (rc = write_csv(outdir, "robust_sites.csv", ts, e)) != ERR_OK)
+    if ((rc = table_save(t, outdir, "robust.csv", e)) != ERR_OK ||
+        (rc = table_save(ts, outdir, "robust_sites.csv", e)) != ERR_OK)
         goto done;
     sj = cJSON_GetObjectItemCaseSensitive(summary, "site");
     if (sj == NULL) sj = summary;

@@ -328,16 +328,10 @@ static double minutes(double s)
 
 static int write_table(table_t *t, const char *outdir, const char *name, err_t *e)
 {
-    char *p = out_join(outdir, name);
     int rc;
 
-    if (t == NULL || p == NULL) {
-        free(p);
-        table_free(t);
-        return err_set(e, ERR_NOMEM, "out of memory writing %s", name);
-    }
-    rc = table_write_csv(t, p, 10, e);
-    free(p);
+    if (t == NULL) return err_set(e, ERR_NOMEM, "out of memory writing %s", name);
+    rc = table_save(t, outdir, name, e);
     table_free(t);
     return rc;
 }

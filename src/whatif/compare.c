@@ -609,14 +609,10 @@ int compare_run(const inputs_t *in, network_t *net, const districts_t *districts
         cJSON_AddStringToObject(files, "sites", "compare_sites.csv");
     }
     if ((rt = ranking_table(in, res)) == NULL) goto nomem;
-    if ((p = out_join(outdir, "compare.csv")) == NULL) goto nomem;
-    if ((rc = table_write_csv(rt, p, 10, e)) != ERR_OK) goto done;
-    free(p);
-    if ((p = out_join(outdir, "compare_bands.csv")) == NULL) goto nomem;
-    if ((rc = table_write_csv(bt, p, 10, e)) != ERR_OK) goto done;
-    free(p);
-    if ((p = out_join(outdir, "compare_sites.csv")) == NULL) goto nomem;
-    rc = table_write_csv(st, p, 10, e);
+    if ((rc = table_save(rt, outdir, "compare.csv", e)) != ERR_OK ||
+        (rc = table_save(bt, outdir, "compare_bands.csv", e)) != ERR_OK)
+        goto done;
+    rc = table_save(st, outdir, "compare_sites.csv", e);
     goto done;
 nomem:
     rc = err_set(e, ERR_NOMEM, "out of memory comparing variants");

@@ -555,9 +555,7 @@ int links_write(const char *outdir, const inputs_t *in, const links_t *L, cJSON 
         }
     }
     start[L->n] = k;
-    if ((p = out_join(outdir, "links.csv")) == NULL) goto nomem;
-    if ((rc = table_write_csv(t, p, 10, e)) != ERR_OK) goto done;
-    free(p);
+    if ((rc = table_save(t, outdir, "links.csv", e)) != ERR_OK) goto done;
     if ((p = out_join(outdir, "links.gpkg")) == NULL) goto nomem;
     if ((rc = out_write_lines_gpkg(p, "links", in->grid->wkt, x, y, start, t, e)) != ERR_OK)
         goto done;
