@@ -13,7 +13,7 @@
 int summary_new(const char *command, const inputs_t *in, cJSON **out, err_t *e);
 /* Record how long a stage took, under "seconds". */
 void summary_time(cJSON *summary, const char *stage, double seconds);
-/* Add the caution every plan carries. */
+/* Add the caution every plan carries (once, however often it is called). */
 void summary_caution(cJSON *summary);
 /* The caution text, also printed by commands. */
 extern const char summary_caution_text[];

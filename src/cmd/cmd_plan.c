@@ -12,6 +12,7 @@
 #include <cJSON.h>
 
 #include "cli.h"
+#include "job.h"
 #include "districts.h"
 #include "inputs.h"
 #include "network.h"
@@ -217,7 +218,6 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
     report_result_t report = {0};
     warn_list_t notes;
     cJSON *sum = NULL, *pj, *links, *rep = NULL;
-    char *path = NULL;
     progress_t pr;
     int rc;
 
@@ -316,9 +316,7 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
     else cJSON_AddNullToObject(links, "site");
     if (have_sup) cJSON_AddStringToObject(links, "supply", "supply");
     else cJSON_AddNullToObject(links, "supply");
-    summary_caution(sum);
-    path = out_join(o->outdir, "summary.json");
-    rc = out_write_json(path, sum, e);
+    rc = cli_summary_save(o, sum, e);
     if (rc != ERR_OK) goto done;
 
     /* plan ends with the HTML report of everything it wrote. */
@@ -327,15 +325,12 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
         if (rc != ERR_OK) goto done;
         /* Link the report from summary.json too (written again, atomically). */
         cJSON_AddStringToObject(links, "report", "report.html");
-        rc = out_write_json(path, sum, e);
+        rc = cli_summary_save(o, sum, e);
         if (rc != ERR_OK) goto done;
     }
 
-    if (o->json) {
-        char *text = cJSON_Print(sum);
-        if (text != NULL) puts(text);
-        cJSON_free(text);
-    } else if (!o->quiet) {
+    /* print_plan prints the warnings itself, with the plan's notes. */
+    if (cli_summary_show(o, sum, NULL)) {
         print_plan(in, d, &ps, have_before ? &before : NULL, have_sup ? &sup : NULL, &notes, full,
                    o->outdir);
         /* Last, so a coordinator finds it at the bottom of the output. */
@@ -343,7 +338,6 @@ int cmd_plan_job(const cli_options_t *o, int full, err_t *e)
     }
 done:
     report_result_destroy(&report);
-    free(path);
     free(ps.persons);
     points_free(ps.owned);
     cJSON_Delete(sum);

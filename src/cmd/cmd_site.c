@@ -7,6 +7,7 @@
 #include <cJSON.h>
 
 #include "cli.h"
+#include "job.h"
 #include "inputs.h"
 #include "network.h"
 #include "output.h"
@@ -80,7 +81,6 @@ int cmd_site(const cli_options_t *o, err_t *e)
     site_result_t r = {0};
     site_robust_t rob = {0};
     cJSON *sum = NULL;
-    char *path = NULL;
     progress_t pr;
     int rc;
 
@@ -128,24 +128,15 @@ int cmd_site(const cli_options_t *o, err_t *e)
             rc = site_robust_write(o->outdir, s, &d, &rob, sum, e);
         summary_time(sum, "write_outputs", progress_end(&pr));
         if (rc != ERR_OK) goto done;
-        summary_caution(sum);
-        path = out_join(o->outdir, "summary.json");
-        rc = out_write_json(path, sum, e);
+        rc = cli_summary_save(o, sum, e);
         if (rc != ERR_OK) goto done;
-        if (o->json) {
-            char *text = cJSON_Print(sum);
-            if (text != NULL) puts(text);
-            cJSON_free(text);
-        } else if (!o->quiet) {
-            for (size_t i = 0; in != NULL && i < in->warnings.n; i++)
-                printf("warning: %s\n", in->warnings.items[i]);
+        if (cli_summary_show(o, sum, in != NULL ? &in->warnings : NULL)) {
             site_print(s, &d, &r);
             if (rob.prob != NULL) site_robust_print(s, &d, &rob);
-            printf("outputs in %s\n%s\n", o->outdir, summary_caution_text);
+            cli_job_footer(o);
         }
     }
 done:
-    free(path);
     cJSON_Delete(sum);
     site_result_destroy(&r);
     site_robust_destroy(&rob);

@@ -33,27 +33,37 @@ int cli_job_open(const cli_options_t *o, const char *command,
     return rc;
 }
 
-int cli_job_finish(const cli_options_t *o, cli_job_t *j, int *human, err_t *e)
+int cli_summary_save(const cli_options_t *o, cJSON *summary, err_t *e)
 {
     char *path = out_join(o->outdir, "summary.json");
     int rc;
 
-    *human = 0;
     if (path == NULL) return err_set(e, ERR_NOMEM, "out of memory");
-    summary_caution(j->summary);
-    rc = out_write_json(path, j->summary, e);
+    summary_caution(summary);
+    rc = out_write_json(path, summary, e);
     free(path);
-    if (rc != ERR_OK) return rc;
+    return rc;
+}
+
+int cli_summary_show(const cli_options_t *o, const cJSON *summary, const warn_list_t *w)
+{
     if (o->json) {
-        char *text = cJSON_Print(j->summary);
+        char *text = cJSON_Print(summary);
         if (text != NULL) puts(text);
         cJSON_free(text);
-    } else if (!o->quiet) {
-        for (size_t i = 0; i < j->in->warnings.n; i++)
-            printf("warning: %s\n", j->in->warnings.items[i]);
-        *human = 1;
+        return 0;
     }
-    return ERR_OK;
+    if (o->quiet) return 0;
+    for (size_t i = 0; w != NULL && i < w->n; i++) printf("warning: %s\n", w->items[i]);
+    return 1;
+}
+
+int cli_job_finish(const cli_options_t *o, cli_job_t *j, int *human, err_t *e)
+{
+    int rc = cli_summary_save(o, j->summary, e);
+
+    *human = rc == ERR_OK && cli_summary_show(o, j->summary, &j->in->warnings);
+    return rc;
 }
 
 void cli_job_footer(const cli_options_t *o)

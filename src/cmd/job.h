@@ -27,8 +27,12 @@ typedef struct cli_job {
 int cli_job_open(const cli_options_t *o, const char *command,
                  int (*check)(const cli_options_t *o, const inputs_t *in, err_t *e),
                  cli_job_t *j, err_t *e);
-/* Write OUTDIR/summary.json. With --json print it; *human is 1 when the caller
- * should print its human summary (the warnings are printed already). */
+/* Write OUTDIR/summary.json with the caution (again, after a late change). */
+int cli_summary_save(const cli_options_t *o, cJSON *summary, err_t *e);
+/* With --json print the summary and return 0; with --quiet return 0; else print
+ * the warnings (w may be NULL) and return 1: the caller prints its human summary. */
+int cli_summary_show(const cli_options_t *o, const cJSON *summary, const warn_list_t *w);
+/* cli_summary_save then cli_summary_show for a job; *human as the latter returns. */
 int cli_job_finish(const cli_options_t *o, cli_job_t *j, int *human, err_t *e);
 /* The last human lines: where the outputs are, and the caution. */
 void cli_job_footer(const cli_options_t *o);

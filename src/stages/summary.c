@@ -117,5 +117,6 @@ void summary_time(cJSON *summary, const char *stage, double seconds)
 
 void summary_caution(cJSON *summary)
 {
-    cJSON_AddStringToObject(summary, "caution", summary_caution_text);
+    if (cJSON_GetObjectItem(summary, "caution") == NULL)
+        cJSON_AddStringToObject(summary, "caution", summary_caution_text);
 }
